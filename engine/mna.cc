@@ -1,0 +1,174 @@
+#include "engine/mna.h"
+
+#include <fmt/format.h>
+
+#include <algorithm>
+
+namespace lcc {
+namespace {
+
+// Records positions on the first pass.
+class PatternSink final : public StampSink {
+ public:
+  std::vector<Eigen::Triplet<double, int>> g, c;
+  void G(int row, int col, double) override { g.emplace_back(row, col, 0.0); }
+  void C(int row, int col, double value) override { c.emplace_back(row, col, value); }
+};
+
+// Writes values into pre-computed slots; entries on ground rows or columns
+// are dropped consistently with the pattern pass.
+class ValueSink final : public StampSink {
+ public:
+  ValueSink(const std::vector<int>& g_slot, const std::vector<int>& c_slot, double* g, double* c)
+      : g_slot_(g_slot), c_slot_(c_slot), g_(g), c_(c) {}
+  void G(int row, int col, double value) override {
+    if (row < 0 || col < 0) return;
+    if (g_) g_[g_slot_[gk_]] += value;
+    ++gk_;
+  }
+  void C(int row, int col, double value) override {
+    if (row < 0 || col < 0) return;
+    if (c_) c_[c_slot_[ck_]] += value;
+    ++ck_;
+  }
+
+ private:
+  const std::vector<int>& g_slot_;
+  const std::vector<int>& c_slot_;
+  double* g_;
+  double* c_;
+  std::size_t gk_ = 0, ck_ = 0;
+};
+
+int SlotOf(const MnaSystem::SparseMatrix& m, int row, int col) {
+  const int* inner = m.innerIndexPtr();
+  const int begin = m.outerIndexPtr()[col], end = m.outerIndexPtr()[col + 1];
+  const int* it = std::lower_bound(inner + begin, inner + end, row);
+  return static_cast<int>(it - inner);
+}
+
+}  // namespace
+
+MnaSystem::MnaSystem(const Circuit& circuit) : circuit_(circuit), n_(circuit.num_unknowns()) {
+  PatternSink pattern_sink;
+  for (const auto& d : circuit.devices()) d->Stamp(pattern_sink, false);
+  auto drop_ground = [](std::vector<Eigen::Triplet<double, int>>& t) {
+    t.erase(std::remove_if(t.begin(), t.end(), [](const auto& x) { return x.row() < 0 || x.col() < 0; }),
+            t.end());
+  };
+  drop_ground(pattern_sink.g);
+  drop_ground(pattern_sink.c);
+
+  std::vector<Eigen::Triplet<double, int>> all = pattern_sink.g;
+  all.insert(all.end(), pattern_sink.c.begin(), pattern_sink.c.end());
+  // The diagonal is always in the pattern: the LU may need it for pivoting.
+  for (int k = 0; k < n_; ++k) all.emplace_back(k, k, 0.0);
+  pattern_.resize(n_, n_);
+  pattern_.setFromTriplets(all.begin(), all.end());
+  pattern_.makeCompressed();
+
+  for (const auto& t : pattern_sink.g) g_slot_.push_back(SlotOf(pattern_, t.row(), t.col()));
+  for (const auto& t : pattern_sink.c) c_slot_.push_back(SlotOf(pattern_, t.row(), t.col()));
+  g_values_.assign(pattern_.nonZeros(), 0.0);
+  c_values_.assign(pattern_.nonZeros(), 0.0);
+  {
+    ValueSink sink(g_slot_, c_slot_, nullptr, c_values_.data());
+    for (const auto& d : circuit.devices()) d->Stamp(sink, false);
+  }
+
+  differential_.assign(n_, 0);
+  for (int col = 0; col < n_; ++col) {
+    for (int p = pattern_.outerIndexPtr()[col]; p < pattern_.outerIndexPtr()[col + 1]; ++p)
+      if (c_values_[p] != 0.0) differential_[col] = 1;
+    if (differential_[col]) differential_indices_.push_back(col);
+  }
+  for (const auto& d : circuit.devices()) {
+    // Only devices that add to b(t): sources, and valves (their Vf).
+    const TopologyRole r = d->role();
+    if (r == TopologyRole::kVoltageSource || r == TopologyRole::kCurrentSource || d->has_switch_state())
+      source_devices_.push_back(d.get());
+  }
+  b_.assign(n_, 0.0);
+  states_.assign(circuit.num_switch_slots(), 0);
+  SetSwitchStates(states_);
+  consistency_ = pattern_;
+}
+
+void MnaSystem::SetSwitchStates(const std::vector<std::uint8_t>& states) {
+  states_ = states;
+  std::fill(g_values_.begin(), g_values_.end(), 0.0);
+  ValueSink sink(g_slot_, c_slot_, g_values_.data(), nullptr);
+  for (const auto& d : circuit_.devices()) {
+    const bool on = d->switch_slot() >= 0 && states_[d->switch_slot()];
+    d->Stamp(sink, on);
+  }
+}
+
+void MnaSystem::Sources(double t, double* b) const {
+  std::fill(b, b + n_, 0.0);
+  for (const Device* d : source_devices_) {
+    const bool on = d->switch_slot() >= 0 && states_[d->switch_slot()];
+    d->AddSources(t, on, b);
+  }
+}
+
+void MnaSystem::Residual(double t, const double* y, const double* yp, double* r) const {
+  Sources(t, b_.data());
+  for (int k = 0; k < n_; ++k) r[k] = -b_[k];
+  const int* outer = pattern_.outerIndexPtr();
+  const int* inner = pattern_.innerIndexPtr();
+  for (int col = 0; col < n_; ++col) {
+    const double yc = y[col], ypc = yp[col];
+    for (int p = outer[col]; p < outer[col + 1]; ++p)
+      r[inner[p]] += g_values_[p] * yc + c_values_[p] * ypc;
+  }
+}
+
+void MnaSystem::JacobianValues(double cj, double* values) const {
+  for (std::size_t p = 0; p < g_values_.size(); ++p) values[p] = g_values_[p] + cj * c_values_[p];
+}
+
+bool MnaSystem::SolveConsistent(double t, double* y, double* yp, std::string* error) {
+  const int* outer = pattern_.outerIndexPtr();
+  const int* inner = pattern_.innerIndexPtr();
+  double* m = consistency_.valuePtr();
+  Eigen::VectorXd rhs(n_);
+  Sources(t, rhs.data());
+  for (int col = 0; col < n_; ++col) {
+    for (int p = outer[col]; p < outer[col + 1]; ++p) {
+      if (differential_[col]) {
+        m[p] = c_values_[p];
+        rhs[inner[p]] -= g_values_[p] * y[col];
+      } else {
+        m[p] = g_values_[p];
+      }
+    }
+  }
+  if (!consistency_analyzed_) {
+    consistency_lu_.analyzePattern(consistency_);
+    consistency_analyzed_ = true;
+  }
+  consistency_lu_.factorize(consistency_);
+  if (consistency_lu_.info() != Eigen::Success) {
+    *error = fmt::format("the circuit equations are singular at t = {:.9g} s ({})", t,
+                         consistency_lu_.lastErrorMessage());
+    return false;
+  }
+  Eigen::VectorXd z = consistency_lu_.solve(rhs);
+  for (int k = 0; k < n_; ++k) {
+    if (!std::isfinite(z[k])) {
+      *error = fmt::format("the circuit equations are singular at t = {:.9g} s (unknown {})", t,
+                           circuit_.UnknownName(k));
+      return false;
+    }
+    if (differential_[k]) {
+      yp[k] = z[k];
+    } else {
+      y[k] = z[k];
+      yp[k] = 0.0;
+    }
+  }
+  return true;
+}
+
+}  // namespace lcc

@@ -1,0 +1,75 @@
+// The modified-nodal-analysis system of a circuit:
+//     F(t, y, y') = C·y' + G(s)·y − b(t, s) = 0.
+//
+// G and C share one compressed-column pattern that is fixed for the life of
+// the circuit (devices stamp the same positions whatever their state), so a
+// switching event changes values only: the Jacobian J = G + cj·C keeps its
+// sparsity and the LU's symbolic analysis is done once.
+//
+// Differential unknowns are those with a non-zero column in C (inductor
+// currents, capacitor voltages); all node voltages and the other branch
+// currents are algebraic.
+//
+// SolveConsistent() gives consistent (y, y') at an instant for given
+// differential values, by one sparse solve of the index-1 system
+//     [C_d  G_a]·[y'_d; y_a] = b(t) − G_d·y_d,
+// the algebraic y' being set to zero.
+#pragma once
+
+#include <Eigen/SparseCore>
+#include <Eigen/SparseLU>
+#include <cstdint>
+#include <string>
+#include <vector>
+
+#include "models/circuit.h"
+
+namespace lcc {
+
+class MnaSystem {
+ public:
+  using SparseMatrix = Eigen::SparseMatrix<double, Eigen::ColMajor, int>;
+
+  explicit MnaSystem(const Circuit& circuit);
+
+  int size() const { return n_; }
+  const std::vector<char>& differential() const { return differential_; }
+  const std::vector<int>& differential_indices() const { return differential_indices_; }
+  // Pattern of J (and of G, C and the consistency matrix).
+  const SparseMatrix& pattern() const { return pattern_; }
+  const std::vector<std::uint8_t>& switch_states() const { return states_; }
+
+  // Re-stamps G for the given switch states (one entry per switch slot).
+  void SetSwitchStates(const std::vector<std::uint8_t>& states);
+
+  // r = C·y' + G·y − b(t).
+  void Residual(double t, const double* y, const double* yp, double* r) const;
+  // Values of J = G + cj·C in pattern order.
+  void JacobianValues(double cj, double* values) const;
+
+  // Replaces the algebraic entries of y, and all of y', by consistent values
+  // for the differential entries of y. Returns false (with a reason) if the
+  // system is singular in the present switch states.
+  bool SolveConsistent(double t, double* y, double* yp, std::string* error);
+
+ private:
+  void Sources(double t, double* b) const;
+
+  const Circuit& circuit_;
+  int n_ = 0;
+  SparseMatrix pattern_;
+  std::vector<int> g_slot_;  // stamp order -> value index
+  std::vector<int> c_slot_;
+  std::vector<double> g_values_, c_values_;
+  std::vector<char> differential_;
+  std::vector<int> differential_indices_;
+  std::vector<std::uint8_t> states_;
+  std::vector<const Device*> source_devices_;
+  mutable std::vector<double> b_;
+
+  SparseMatrix consistency_;
+  Eigen::SparseLU<SparseMatrix, Eigen::COLAMDOrdering<int>> consistency_lu_;
+  bool consistency_analyzed_ = false;
+};
+
+}  // namespace lcc

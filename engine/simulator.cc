@@ -1,0 +1,570 @@
+#include "engine/simulator.h"
+
+#include <ida/ida.h>
+#include <nvector/nvector_serial.h>
+#include <sundials/sundials_context.h>
+#include <sunmatrix/sunmatrix_sparse.h>
+
+#include <fmt/format.h>
+
+#include <algorithm>
+#include <chrono>
+#include <cmath>
+#include <memory>
+#include <set>
+#include <stdexcept>
+
+#include "engine/eigen_linear_solver.h"
+#include "engine/mna.h"
+#include "models/valve.h"
+
+namespace lcc {
+namespace {
+
+// ---- owners of SUNDIALS handles ---------------------------------------------
+
+struct ContextDeleter {
+  void operator()(SUNContext* c) const {
+    if (c && *c) SUNContext_Free(c);
+    delete c;
+  }
+};
+struct VectorDeleter {
+  void operator()(_generic_N_Vector* v) const { if (v) N_VDestroy(v); }
+};
+struct MatrixDeleter {
+  void operator()(_generic_SUNMatrix* m) const { if (m) SUNMatDestroy(m); }
+};
+struct SolverDeleter {
+  void operator()(_generic_SUNLinearSolver* s) const { if (s) SUNLinSolFree(s); }
+};
+struct IdaDeleter {
+  void operator()(void* mem) const {
+    if (mem) IDAFree(&mem);
+  }
+};
+using Vector = std::unique_ptr<_generic_N_Vector, VectorDeleter>;
+using Matrix = std::unique_ptr<_generic_SUNMatrix, MatrixDeleter>;
+using Solver = std::unique_ptr<_generic_SUNLinearSolver, SolverDeleter>;
+using IdaMemory = std::unique_ptr<void, IdaDeleter>;
+
+// Throws with the SUNDIALS call's name and code; used for set-up calls that
+// fail only on programming errors.
+void Check(int flag, const char* call) {
+  if (flag < 0) throw std::runtime_error(fmt::format("{} failed with code {}", call, flag));
+}
+
+// ---- the run ---------------------------------------------------------------
+
+class Run {
+ public:
+  Run(const Circuit& circuit, const Study& study, const EngineOptions& options, SampleSink& sink)
+      : circuit_(circuit), study_(study), options_(options), sink_(sink), mna_(circuit),
+        n_(mna_.size()) {}
+
+  RunResult Execute() {
+    const auto start = std::chrono::steady_clock::now();
+    start_ = start;
+    try {
+      if (Prepare()) Integrate();
+    } catch (const std::exception& e) {
+      Fail(e.what());
+    }
+    Accumulate();
+    auto& s = result_.summary;
+    s.wall_seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - start).count();
+    s.jacobian_evaluations = jac_evals_;
+    s.linear_setups = solver_stats_.setups;
+    s.symbolic_analyses = solver_stats_.analyses;
+    if (s.status == RunSummary::Status::kNotRun) s.status = RunSummary::Status::kCompleted;
+    FinishWindow();
+    return std::move(result_);
+  }
+
+ private:
+  // -- set-up ---------------------------------------------------------------
+
+  // Returns false if the initial configuration cannot be settled.
+  bool Prepare() {
+    const SimulateSpec& sim = *study_.simulate;
+    auto& s = result_.summary;
+    s.stop_given = sim.stop;
+    s.reltol_used = sim.reltol;
+    const double f = study_.steady && study_.steady->frequency > 0 ? study_.steady->frequency
+                                                                   : study_.fundamental;
+    period_ = f > 0 ? 1.0 / f : 0.0;
+    s.period = period_;
+    s.sample_used = sim.sample > 0 ? sim.sample : period_ > 0 ? period_ / 1024.0 : sim.stop / 10000.0;
+    s.max_step_used = sim.max_step > 0 ? sim.max_step : period_ > 0 ? period_ / 360.0 : sim.stop / 1000.0;
+    s.steady_requested = study_.steady.has_value();
+    t_end_ = sim.stop;
+    if (study_.steady && study_.steady->settle_max > 0 && period_ > 0)
+      t_end_ = std::min(sim.stop, study_.steady->settle_max + study_.steady->cycles * period_);
+
+    // Scales for the absolute tolerances and the valve hysteresis.
+    double v_ref = 0.0, i_ref = 0.0, r_min = 0.0;
+    for (const auto& d : circuit_.devices()) {
+      v_ref = std::max(v_ref, d->voltage_scale());
+      i_ref = std::max(i_ref, d->current_scale());
+      const double r = d->resistance_scale();
+      if (r > 0 && (r_min == 0 || r < r_min)) r_min = r;
+    }
+    if (v_ref <= 0) v_ref = 1.0;
+    i_ref = std::max(i_ref, v_ref / (r_min > 0 ? r_min : 1.0));
+    v_ref_ = v_ref;
+    i_ref_ = i_ref;
+    const double atol_v = sim.reltol * options_.tolerances.abstol_fraction * v_ref;
+    const double atol_i = sim.reltol * options_.tolerances.abstol_fraction * i_ref;
+    eps_v_ = options_.tolerances.hysteresis * atol_v;
+    eps_i_ = options_.tolerances.hysteresis * atol_i;
+
+    for (std::size_t k = 0; k < circuit_.devices().size(); ++k) {
+      const Device& d = *circuit_.devices()[k];
+      if (d.natural()) valves_.push_back({static_cast<int>(k), static_cast<const Valve*>(&d)});
+    }
+
+    ctx_.reset(new SUNContext(nullptr));
+    Check(SUNContext_Create(nullptr, ctx_.get()), "SUNContext_Create");
+    y_.reset(N_VNew_Serial(n_, *ctx_));
+    yp_.reset(N_VNew_Serial(n_, *ctx_));
+    work_.reset(N_VNew_Serial(n_, *ctx_));
+    work_p_.reset(N_VNew_Serial(n_, *ctx_));
+    Vector atol(N_VNew_Serial(n_, *ctx_));
+    Vector id(N_VNew_Serial(n_, *ctx_));
+    double* a = N_VGetArrayPointer(atol.get());
+    double* idv = N_VGetArrayPointer(id.get());
+    for (int k = 0; k < n_; ++k) {
+      a[k] = IsVoltageUnknown(k) ? atol_v : atol_i;
+      idv[k] = mna_.differential()[k] ? 1.0 : 0.0;
+    }
+    atol_.assign(a, a + n_);
+
+    // Initial state: differential unknowns from i0 / v0, switches as given.
+    double* y = N_VGetArrayPointer(y_.get());
+    double* yp = N_VGetArrayPointer(yp_.get());
+    std::fill(y, y + n_, 0.0);
+    std::fill(yp, yp + n_, 0.0);
+    for (const auto& d : circuit_.devices())
+      for (int k = 0; k < d->num_branches(); ++k) y[d->branch(k)] = d->initial_value(k);
+    states_.assign(circuit_.num_switch_slots(), 0);
+    for (const auto& d : circuit_.devices())
+      if (d->has_switch_state()) states_[d->switch_slot()] = d->initially_on();
+    if (!Settle(0.0, {})) return false;
+
+    ida_.reset(IDACreate(*ctx_));
+    if (!ida_) throw std::runtime_error("IDACreate failed");
+    void* mem = ida_.get();
+    Check(IDAInit(mem, &Run::ResidualFn, 0.0, y_.get(), yp_.get()), "IDAInit");
+    Check(IDASetUserData(mem, this), "IDASetUserData");
+    Check(IDASetErrHandlerFn(mem, &Run::ErrorFn, this), "IDASetErrHandlerFn");
+    Check(IDASVtolerances(mem, sim.reltol, atol.get()), "IDASVtolerances");
+    Check(IDASetId(mem, id.get()), "IDASetId");
+    Check(IDASetSuppressAlg(mem, SUNTRUE), "IDASetSuppressAlg");
+    Check(IDASetMaxStep(mem, s.max_step_used), "IDASetMaxStep");
+    Check(IDASetStopTime(mem, t_end_), "IDASetStopTime");
+
+    const auto& pattern = mna_.pattern();
+    jacobian_.reset(SUNSparseMatrix(n_, n_, pattern.nonZeros(), CSC_MAT, *ctx_));
+    solver_.reset(MakeEigenSparseLu(*ctx_, pattern, &solver_stats_));
+    Check(IDASetLinearSolver(mem, solver_.get(), jacobian_.get()), "IDASetLinearSolver");
+    Check(IDASetJacFn(mem, &Run::JacobianFn), "IDASetJacFn");
+    if (!valves_.empty()) {
+      Check(IDARootInit(mem, static_cast<int>(valves_.size()), &Run::RootFn), "IDARootInit");
+      Check(IDASetNoInactiveRootWarn(mem), "IDASetNoInactiveRootWarn");
+      SetRootDirections();
+    }
+    if (study_.steady && period_ > 0) {
+      next_boundary_ = period_;
+      previous_state_ = DifferentialState(y);
+      cycle_peak_.assign(previous_state_.size(), 0.0);
+      for (std::size_t i = 0; i < previous_state_.size(); ++i) cycle_peak_[i] = std::abs(previous_state_[i]);
+    }
+    return true;
+  }
+
+  bool IsVoltageUnknown(int k) const {
+    if (k < circuit_.num_nodes() - 1) return true;
+    for (const auto& d : circuit_.devices())
+      if (d->num_branches() > 0 && d->branch(0) == k) return d->role() == TopologyRole::kCapacitive;
+    return false;
+  }
+
+  // -- the main loop ----------------------------------------------------------
+
+  void Integrate() {
+    void* mem = ida_.get();
+    const double dt = result_.summary.sample_used;
+    double t = 0.0;
+    std::vector<int> roots(valves_.size());
+    while (true) {
+      if (options_.limits.max_steps > 0 && TotalSteps() >= options_.limits.max_steps) {
+        Fail(fmt::format("step limit of {} steps reached at t = {:.6g} s", options_.limits.max_steps, t));
+        return;
+      }
+      if (options_.limits.max_wall_seconds > 0 &&
+          std::chrono::duration<double>(std::chrono::steady_clock::now() - start_).count() >
+              options_.limits.max_wall_seconds) {
+        Fail(fmt::format("wall-clock limit of {:g} s reached at t = {:.6g} s",
+                         options_.limits.max_wall_seconds, t));
+        return;
+      }
+      double tret = t;
+      const int flag = IDASolve(mem, t_end_, &tret, y_.get(), yp_.get(), IDA_ONE_STEP);
+      if (flag < 0) {
+        Fail(fmt::format("the integrator failed at t = {:.9g} s: {}{}", tret, IDAGetReturnFlagName(flag),
+                         last_ida_message_.empty() ? "" : " (" + last_ida_message_ + ")"));
+        return;
+      }
+      t = tret;
+      EmitSamples(std::min(t, t_end_), dt);
+      TrackCycles(t);
+      result_.summary.t_reached = t;
+      if (flag == IDA_ROOT_RETURN) {
+        Check(IDAGetRootInfo(mem, roots.data()), "IDAGetRootInfo");
+        std::vector<int> flagged;
+        for (std::size_t k = 0; k < valves_.size(); ++k)
+          if (roots[k] != 0) flagged.push_back(static_cast<int>(k));
+        ++result_.summary.events;
+        if (!HandleEvent(t, flagged)) return;
+      }
+      if (flag == IDA_TSTOP_RETURN || t >= t_end_) break;
+    }
+  }
+
+  bool HandleEvent(double t, const std::vector<int>& flagged) {
+    // Chattering guard.
+    const double window = options_.events.chatter_window * (period_ > 0 ? period_ : t_end_);
+    if (t - last_event_time_ < window) {
+      if (++rapid_events_ >= options_.events.chatter_events) {
+        std::set<std::string> names;
+        for (int k : flagged) names.insert(valves_[k].valve->name());
+        std::string list;
+        for (const auto& nm : names) list += (list.empty() ? "" : ", ") + nm;
+        Fail(fmt::format("valve{} {} switched {} times within {:.3g} s at t = {:.9g} s: chattering; "
+                         "consider a snubber or a larger Roff",
+                         names.size() > 1 ? "s" : "", list, rapid_events_, t - chatter_start_, t));
+        return false;
+      }
+    } else {
+      rapid_events_ = 0;
+      chatter_start_ = t;
+    }
+    last_event_time_ = t;
+
+    Accumulate();
+    if (!Settle(t, flagged)) return false;
+    void* mem = ida_.get();
+    Check(IDAReInit(mem, t, y_.get(), yp_.get()), "IDAReInit");
+    Check(IDASetStopTime(mem, t_end_), "IDASetStopTime");
+    SetRootDirections();
+    return true;
+  }
+
+  // Flips `flagged` valves, then settles the configuration (see header).
+  bool Settle(double t, const std::vector<int>& flagged) {
+    double* y = N_VGetArrayPointer(y_.get());
+    double* yp = N_VGetArrayPointer(yp_.get());
+    for (int k : flagged) Flip(t, k);
+    std::set<std::vector<std::uint8_t>> seen;
+    std::vector<int> flipped;
+    for (int iteration = 0;; ++iteration) {
+      mna_.SetSwitchStates(states_);
+      std::string error;
+      if (!mna_.SolveConsistent(t, y, yp, &error)) {
+        Fail(error + ValveStateText());
+        return false;
+      }
+      int worst = -1;
+      double worst_violation = 0.0;
+      for (std::size_t k = 0; k < valves_.size(); ++k) {
+        const Valve& v = *valves_[k].valve;
+        const bool on = states_[v.switch_slot()];
+        const double violation = on ? (-eps_i_ - v.Current(y)) / i_ref_
+                                    : (v.Voltage(y) - v.params().v_f - eps_v_) / v_ref_;
+        if (violation > worst_violation) {
+          worst_violation = violation;
+          worst = static_cast<int>(k);
+        }
+      }
+      if (worst < 0) return true;
+      if (iteration >= options_.events.max_settle_iterations || !seen.insert(states_).second) {
+        std::set<std::string> names;
+        for (int k : flipped) names.insert(valves_[k].valve->name());
+        std::string list;
+        for (const auto& nm : names) list += (list.empty() ? "" : ", ") + nm;
+        Fail(fmt::format("no consistent valve configuration at t = {:.9g} s: valves {} keep "
+                         "switching each other",
+                         t, list));
+        return false;
+      }
+      Flip(t, worst);
+      flipped.push_back(worst);
+    }
+  }
+
+  void Flip(double t, int k) {
+    const Valve& v = *valves_[k].valve;
+    auto& state = states_[v.switch_slot()];
+    state = !state;
+    result_.events.push_back({t, valves_[k].device, state != 0});
+    ++result_.summary.switchings;
+  }
+
+  std::string ValveStateText() const {
+    std::string on;
+    for (const auto& v : valves_)
+      if (states_[v.valve->switch_slot()]) on += (on.empty() ? "" : ", ") + v.valve->name();
+    return on.empty() ? "" : "; conducting valves: " + on;
+  }
+
+  void SetRootDirections() {
+    std::vector<int> dir(valves_.size());
+    for (std::size_t k = 0; k < valves_.size(); ++k)
+      dir[k] = states_[valves_[k].valve->switch_slot()] ? -1 : 1;
+    Check(IDASetRootDirection(ida_.get(), dir.data()), "IDASetRootDirection");
+  }
+
+  // -- outputs and cycles -------------------------------------------------------
+
+  void EmitSamples(double t, double dt) {
+    void* mem = ida_.get();
+    const double slack = 1e-9 * dt;  // so that a sample at exactly t_end is not lost to rounding
+    while (true) {
+      const double ts = next_sample_ * dt;
+      if (ts > t + slack || ts > t_end_ + slack) break;
+      const double tq = std::min(ts, t);
+      Check(IDAGetDky(mem, tq, 0, work_.get()), "IDAGetDky");
+      Check(IDAGetDky(mem, tq, 1, work_p_.get()), "IDAGetDky");
+      sink_.OnSample(ts, N_VGetArrayPointer(work_.get()), N_VGetArrayPointer(work_p_.get()));
+      ++next_sample_;
+      ++result_.summary.samples;
+    }
+  }
+
+  std::vector<double> DifferentialState(const double* y) const {
+    std::vector<double> x;
+    for (int k : mna_.differential_indices()) x.push_back(y[k]);
+    return x;
+  }
+
+  void TrackCycles(double t) {
+    if (!study_.steady || period_ <= 0 || result_.summary.steady_reached) return;
+    const double* y = N_VGetArrayPointer(y_.get());
+    const auto& diff = mna_.differential_indices();
+    for (std::size_t i = 0; i < diff.size(); ++i)
+      cycle_peak_[i] = std::max(cycle_peak_[i], std::abs(y[diff[i]]));
+    while (next_boundary_ <= t && !result_.summary.steady_reached) {
+      Check(IDAGetDky(ida_.get(), next_boundary_, 0, work_.get()), "IDAGetDky");
+      std::vector<double> x = DifferentialState(N_VGetArrayPointer(work_.get()));
+      double sum = 0.0;
+      for (std::size_t i = 0; i < x.size(); ++i) {
+        const double w = study_.steady->tol * cycle_peak_[i] + atol_[diff[i]];
+        const double e = (x[i] - previous_state_[i]) / w;
+        sum += e * e;
+      }
+      const double wrms = x.empty() ? 0.0 : std::sqrt(sum / static_cast<double>(x.size()));
+      agreeing_cycles_ = wrms <= 1.0 ? agreeing_cycles_ + 1 : 0;
+      if (agreeing_cycles_ >= 2) {
+        auto& s = result_.summary;
+        s.steady_reached = true;
+        s.steady_time = next_boundary_;
+        t_end_ = std::min(study_.simulate->stop, next_boundary_ + study_.steady->cycles * period_);
+        if (t_end_ > t) Check(IDASetStopTime(ida_.get(), t_end_), "IDASetStopTime");
+        else t_end_ = t;
+      }
+      previous_state_ = x;
+      for (std::size_t i = 0; i < x.size(); ++i) cycle_peak_[i] = std::abs(x[i]);
+      next_boundary_ += period_;
+    }
+  }
+
+  void FinishWindow() {
+    auto& s = result_.summary;
+    const double end = s.t_reached > 0 ? s.t_reached : 0.0;
+    s.window_end = end;
+    if (period_ > 0) {
+      const int cycles = study_.steady ? study_.steady->cycles : 1;
+      const double whole = std::floor(end / period_ + 1e-9);
+      const double n = std::min<double>(cycles, whole);
+      s.window_begin = n >= 1 ? end - n * period_ : 0.0;
+    } else {
+      s.window_begin = 0.0;
+    }
+  }
+
+  // -- bookkeeping ----------------------------------------------------------------
+
+  long TotalSteps() const {
+    long n = 0;
+    if (ida_) IDAGetNumSteps(ida_.get(), &n);
+    return result_.summary.steps + n;
+  }
+
+  // Adds IDA's counters to the summary; IDAReInit resets them.
+  void Accumulate() {
+    if (!ida_) return;
+    void* mem = ida_.get();
+    long v = 0;
+    auto& s = result_.summary;
+    IDAGetNumSteps(mem, &v); s.steps += v;
+    IDAGetNumResEvals(mem, &v); s.residual_evaluations += v;
+    IDAGetNumErrTestFails(mem, &v); s.error_test_failures += v;
+    IDAGetNumNonlinSolvConvFails(mem, &v); s.nonlinear_failures += v;
+    IDAGetNumGEvals(mem, &v); s.root_evaluations += v;
+  }
+
+  void Fail(std::string message) {
+    result_.summary.status = RunSummary::Status::kFailed;
+    if (result_.summary.message.empty()) result_.summary.message = std::move(message);
+  }
+
+  // -- SUNDIALS callbacks ---------------------------------------------------------
+
+  static int ResidualFn(realtype t, N_Vector y, N_Vector yp, N_Vector r, void* data) {
+    auto* run = static_cast<Run*>(data);
+    run->mna_.Residual(t, N_VGetArrayPointer(y), N_VGetArrayPointer(yp), N_VGetArrayPointer(r));
+    return 0;
+  }
+
+  static int JacobianFn(realtype, realtype cj, N_Vector, N_Vector, N_Vector, SUNMatrix j, void* data,
+                        N_Vector, N_Vector, N_Vector) {
+    auto* run = static_cast<Run*>(data);
+    const auto& p = run->mna_.pattern();
+    // SUNMatZero erases the pattern, so it is written every time.
+    sunindextype* cols = SM_INDEXPTRS_S(j);
+    sunindextype* rows = SM_INDEXVALS_S(j);
+    for (int c = 0; c <= run->n_; ++c) cols[c] = p.outerIndexPtr()[c];
+    for (int k = 0; k < p.nonZeros(); ++k) rows[k] = p.innerIndexPtr()[k];
+    run->mna_.JacobianValues(cj, SM_DATA_S(j));
+    ++run->jac_evals_;
+    return 0;
+  }
+
+  static int RootFn(realtype, N_Vector yv, N_Vector, realtype* g, void* data) {
+    auto* run = static_cast<Run*>(data);
+    const double* y = N_VGetArrayPointer(yv);
+    for (std::size_t k = 0; k < run->valves_.size(); ++k) {
+      const Valve& v = *run->valves_[k].valve;
+      g[k] = run->states_[v.switch_slot()] ? v.Current(y) + run->eps_i_
+                                           : v.Voltage(y) - v.params().v_f - run->eps_v_;
+    }
+    return 0;
+  }
+
+  static void ErrorFn(int code, const char*, const char* function, char* message, void* data) {
+    auto* run = static_cast<Run*>(data);
+    if (code < 0) run->last_ida_message_ = fmt::format("{}: {}", function, message);
+  }
+
+  struct ValveRef {
+    int device;
+    const Valve* valve;
+  };
+
+  const Circuit& circuit_;
+  const Study& study_;
+  const EngineOptions& options_;
+  SampleSink& sink_;
+  MnaSystem mna_;
+  const int n_;
+  RunResult result_;
+
+  std::unique_ptr<SUNContext, ContextDeleter> ctx_;
+  Vector y_, yp_, work_, work_p_;
+  Matrix jacobian_;
+  Solver solver_;
+  IdaMemory ida_;
+  EigenSolverStats solver_stats_;
+  long jac_evals_ = 0;
+  std::string last_ida_message_;
+
+  std::vector<ValveRef> valves_;
+  std::vector<std::uint8_t> states_;
+  std::vector<double> atol_;
+  double v_ref_ = 1.0, i_ref_ = 1.0, eps_v_ = 0.0, eps_i_ = 0.0;
+
+  double period_ = 0.0;
+  double t_end_ = 0.0;
+  long next_sample_ = 0;
+  double next_boundary_ = 0.0;
+  std::vector<double> previous_state_, cycle_peak_;
+  int agreeing_cycles_ = 0;
+
+  double last_event_time_ = -1.0;
+  double chatter_start_ = 0.0;
+  int rapid_events_ = 0;
+  std::chrono::steady_clock::time_point start_;
+};
+
+}  // namespace
+
+bool EngineOptions::IsValid(std::string* error) const {
+  auto bad = [&](const char* field, double value, const char* rule) {
+    *error = fmt::format("{} = {:g}: {}", field, value, rule);
+    return false;
+  };
+  if (!(tolerances.abstol_fraction > 0 && tolerances.abstol_fraction <= 1))
+    return bad("tolerances.abstol_fraction", tolerances.abstol_fraction, "must be in (0, 1]");
+  if (!(tolerances.hysteresis >= 1))
+    return bad("tolerances.hysteresis", tolerances.hysteresis, "must be at least 1");
+  if (events.max_settle_iterations < 1)
+    return bad("events.max_settle_iterations", events.max_settle_iterations, "must be at least 1");
+  if (events.chatter_events < 2) return bad("events.chatter_events", events.chatter_events, "must be at least 2");
+  if (!(events.chatter_window > 0)) return bad("events.chatter_window", events.chatter_window, "must be positive");
+  if (limits.max_steps < 0) return bad("limits.max_steps", static_cast<double>(limits.max_steps), "must not be negative");
+  if (limits.max_wall_seconds < 0) return bad("limits.max_wall_seconds", limits.max_wall_seconds, "must not be negative");
+  return true;
+}
+
+std::string RunSummary::BriefReport() const {
+  const char* status_word = status == Status::kCompleted ? "completed" : status == Status::kFailed ? "FAILED" : "not run";
+  std::string out = fmt::format("{}: t = {:.6g} s, {} steps, {} events, {} switchings, {:.3f} s wall", status_word,
+                                t_reached, steps, events, switchings, wall_seconds);
+  if (steady_requested)
+    out += steady_reached ? fmt::format(", steady at {:.6g} s", steady_time) : ", steady state NOT reached";
+  if (!message.empty()) out += "\n  " + message;
+  return out;
+}
+
+std::string RunSummary::FullReport() const {
+  std::string out;
+  out += fmt::format("  status                    {}\n",
+                     status == Status::kCompleted ? "completed" : status == Status::kFailed ? "failed" : "not run");
+  if (!message.empty()) out += fmt::format("  reason                    {}\n", message);
+  out += fmt::format("  time reached / stop       {:.9g} s / {:.9g} s\n", t_reached, stop_given);
+  out += fmt::format("  relative tolerance        {:g}\n", reltol_used);
+  out += fmt::format("  output interval           {:.6g} s\n", sample_used);
+  out += fmt::format("  largest step              {:.6g} s\n", max_step_used);
+  if (period > 0) out += fmt::format("  fundamental period        {:.9g} s\n", period);
+  if (steady_requested) {
+    out += steady_reached ? fmt::format("  steady state              reached at {:.9g} s\n", steady_time)
+                          : std::string("  steady state              NOT reached; the last cycles are analysed\n");
+  }
+  out += fmt::format("  analysis window           {:.9g} s .. {:.9g} s\n", window_begin, window_end);
+  out += fmt::format("  integration steps         {}\n", steps);
+  out += fmt::format("  events (root returns)     {}\n", events);
+  out += fmt::format("  valve switchings          {}\n", switchings);
+  out += fmt::format("  residual evaluations      {}\n", residual_evaluations);
+  out += fmt::format("  Jacobian evaluations      {}\n", jacobian_evaluations);
+  out += fmt::format("  LU factorisations         {} (symbolic analyses: {})\n", linear_setups, symbolic_analyses);
+  out += fmt::format("  error-test failures       {}\n", error_test_failures);
+  out += fmt::format("  nonlinear failures        {}\n", nonlinear_failures);
+  out += fmt::format("  root-function evaluations {}\n", root_evaluations);
+  out += fmt::format("  output samples            {}\n", samples);
+  out += fmt::format("  wall time                 {:.4f} s\n", wall_seconds);
+  return out;
+}
+
+RunResult Simulate(const Circuit& circuit, const Study& study, const EngineOptions& options,
+                   SampleSink& sink) {
+  if (!study.simulate) {
+    RunResult r;
+    r.summary.status = RunSummary::Status::kFailed;
+    r.summary.message = "no simulate statement";
+    return r;
+  }
+  Run run(circuit, study, options, sink);
+  return run.Execute();
+}
+
+}  // namespace lcc

@@ -1,0 +1,131 @@
+// The event-driven engine: integrates the circuit's DAE with SUNDIALS IDA
+// and locates every valve switching with IDA's root finding.
+//
+// One run, in pseudocode (x⁻/x⁺: just before/after an event):
+//
+//   s ← initial switch states; y(0) from the initial inductor currents and
+//   capacitor voltages; Settle(0)                    (consistent y, y', s)
+//   loop
+//     take one IDA step to t_n (never past t_end)
+//     write every output sample in (t_last, t_n] from IDA's interpolant
+//     at each cycle boundary passed: compare the state with one cycle
+//       earlier; after two agreeing cycles the run is steady and t_end
+//       becomes that boundary + `cycles` periods
+//     if a root was found at t_e (= t_n):
+//       flip the valves whose root function crossed zero
+//       Settle(t_e): solve y⁺ with the differential states held
+//         (inductor currents and capacitor voltages are continuous), check
+//         every valve against its state's rule (on needs i ≥ −ε_i, off
+//         needs v ≤ Vf + ε_v), flip the worst offender, repeat until all
+//         agree; a configuration seen before is a loop: an error naming
+//         the valves involved
+//       re-initialise IDA at t_e with (y⁺, y'⁺)
+//   until t_n = t_end
+//
+// Simultaneous roots are applied together, then settled one valve at a
+// time. A failing step or an unsettled configuration ends the run with
+// status kFailed; the samples written until then are kept.
+#pragma once
+
+#include <cstdint>
+#include <string>
+#include <vector>
+
+#include "models/circuit.h"
+#include "models/study.h"
+
+namespace lcc {
+
+struct EngineOptions {
+  struct Tolerances {
+    // Absolute tolerance of each unknown = reltol × abstol_fraction × scale,
+    // scale being the largest source voltage for voltages and, for currents,
+    // the larger of the largest current source and that voltage over the
+    // smallest resistance.
+    double abstol_fraction = 1e-3;
+    // Valve hysteresis ε = hysteresis × the absolute tolerance of the valve's
+    // current (turn-off) or voltage (turn-on).
+    double hysteresis = 10.0;
+  } tolerances;
+
+  struct Events {
+    int max_settle_iterations = 200;  // valve flips allowed while settling one event
+    // Chattering guard: this many events in a row, each less than
+    // chatter_window × period after the one before, end the run.
+    int chatter_events = 500;
+    double chatter_window = 1e-7;
+  } events;
+
+  struct Limits {
+    long max_steps = 20'000'000;      // integration steps per run
+    double max_wall_seconds = 0.0;    // 0: no limit
+  } limits;
+
+  // Returns false, with the field and the broken rule, if an option is out of range.
+  bool IsValid(std::string* error) const;
+};
+
+// One valve or switch changing state.
+struct SwitchEvent {
+  double t = 0.0;
+  int device = -1;  // index into Circuit::devices()
+  bool on = false;
+};
+
+// Receives the uniformly spaced output samples.
+class SampleSink {
+ public:
+  virtual ~SampleSink() = default;
+  virtual void OnSample(double t, const double* y, const double* yp) = 0;
+};
+
+struct RunSummary {
+  enum class Status { kNotRun, kCompleted, kFailed };
+  Status status = Status::kNotRun;
+  std::string message;            // why it failed (empty when it completed)
+
+  // Settings in effect.
+  double stop_given = -1.0;       // s
+  double t_reached = -1.0;        // s, where the run ended
+  double reltol_used = -1.0;
+  double sample_used = -1.0;      // s
+  double max_step_used = -1.0;    // s
+  double period = 0.0;            // s, of the fundamental (0: none)
+
+  // Steady state and the analysis window.
+  bool steady_requested = false;
+  bool steady_reached = false;
+  double steady_time = -1.0;      // s, boundary where it was declared
+  double window_begin = -1.0;     // s
+  double window_end = -1.0;       // s
+
+  // Counters, summed over every re-initialisation of IDA.
+  long steps = 0;
+  long residual_evaluations = 0;
+  long jacobian_evaluations = 0;
+  long linear_setups = 0;         // numeric LU factorisations for IDA
+  long symbolic_analyses = 0;
+  long error_test_failures = 0;
+  long nonlinear_failures = 0;
+  long root_evaluations = 0;
+  long events = 0;                // root returns handled
+  long switchings = 0;            // valve state changes
+  long samples = 0;
+  double wall_seconds = 0.0;
+
+  std::string BriefReport() const;
+  std::string FullReport() const;
+};
+
+struct RunResult {
+  RunSummary summary;
+  std::vector<SwitchEvent> events;
+};
+
+// Simulates `circuit` as `study` says, streaming samples to `sink`.
+// Requires study.simulate. Never throws for a numerical failure: the
+// summary says what happened.
+RunResult Simulate(const Circuit& circuit, const Study& study, const EngineOptions& options,
+                   SampleSink& sink);
+
+}  // namespace lcc

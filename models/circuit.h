@@ -1,0 +1,70 @@
+// The flat circuit: named nodes and primitive devices, ready for the engine.
+//
+// Composite elements (supply, bridge) have already been expanded into
+// primitives by elaboration; `aliases` keeps the names users probe through
+// (`Grid.a` is the device that carries the current out of port a).
+// Finalize() numbers the unknowns: node voltages first (ground removed),
+// then the branch unknowns of each device in order; and the switch slots.
+#pragma once
+
+#include <map>
+#include <memory>
+#include <string>
+#include <vector>
+
+#include "models/device.h"
+
+namespace lcc {
+
+struct DeviceAlias {
+  const Device* device = nullptr;
+  double sign = 1.0;  // multiplies the device's `.i`
+};
+
+// The valves of one composite converter (a bridge), in conduction order.
+struct ValveGroup {
+  std::string name;
+  std::vector<int> devices;  // indices into devices()
+  SourceLoc loc;
+};
+
+class Circuit {
+ public:
+  Circuit();
+
+  // The index of a node, created on first use. "gnd" is node 0.
+  int Node(const std::string& name, const SourceLoc& where);
+  int FindNode(const std::string& name) const;  // −1 if unknown
+  const std::string& node_name(int node) const { return node_names_[node]; }
+  const SourceLoc& node_loc(int node) const { return node_locs_[node]; }
+  int num_nodes() const { return static_cast<int>(node_names_.size()); }
+
+  Device& Add(std::unique_ptr<Device> device);
+  const std::vector<std::unique_ptr<Device>>& devices() const { return devices_; }
+  const Device* FindDevice(const std::string& name) const;
+
+  void AddAlias(const std::string& name, DeviceAlias alias) { aliases_[name] = alias; }
+  void AddValveGroup(ValveGroup group) { valve_groups_.push_back(std::move(group)); }
+  const std::vector<ValveGroup>& valve_groups() const { return valve_groups_; }
+  const DeviceAlias* FindAlias(const std::string& name) const;
+
+  // Numbers unknowns and switch slots. Call once, after the last Add().
+  void Finalize();
+  int num_unknowns() const { return num_unknowns_; }
+  int num_switch_slots() const { return num_switch_slots_; }
+  // A readable name of unknown k: "v(p)" or "i(Ld)".
+  std::string UnknownName(int k) const;
+
+ private:
+  std::vector<std::string> node_names_;
+  std::vector<SourceLoc> node_locs_;
+  std::map<std::string, int> node_index_;
+  std::vector<std::unique_ptr<Device>> devices_;
+  std::map<std::string, const Device*> device_index_;
+  std::map<std::string, DeviceAlias> aliases_;
+  std::vector<ValveGroup> valve_groups_;
+  int num_unknowns_ = 0;
+  int num_switch_slots_ = 0;
+};
+
+}  // namespace lcc

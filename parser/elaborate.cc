@@ -1,0 +1,808 @@
+#include "parser/elaborate.h"
+
+#include <fmt/format.h>
+
+#include <cmath>
+#include <filesystem>
+#include <fstream>
+#include <map>
+#include <numbers>
+#include <set>
+#include <sstream>
+
+#include "models/capacitor.h"
+#include "models/inductor.h"
+#include "models/resistor.h"
+#include "models/sources.h"
+#include "models/valve.h"
+#include "parser/expression.h"
+#include "parser/kinds.h"
+#include "parser/layout.h"
+#include "parser/netlist.h"
+
+namespace lcc {
+namespace {
+
+namespace fs = std::filesystem;
+using FilePtr = std::shared_ptr<const SourceFile>;
+
+// Largest file read, a guard against pointing the tool at the wrong file.
+constexpr std::uintmax_t kMaxFileBytes = 64u * 1024u * 1024u;
+constexpr int kMaxIncludeDepth = 32;
+
+// The settings of one statement after checking.
+struct Settings {
+  std::map<std::string, double> numbers;
+  std::map<std::string, std::string> words;
+  std::map<std::string, std::vector<ast::Ident>> nodes;
+  std::map<std::string, SourceLoc> where;
+
+  bool has(const std::string& key) const { return where.count(key) > 0; }
+  double number(const std::string& key, double fallback = 0.0) const {
+    auto it = numbers.find(key);
+    return it == numbers.end() ? fallback : it->second;
+  }
+};
+
+struct PendingProbe {
+  ast::Setting setting;
+  FilePtr file;
+};
+
+std::string ConstraintText(Constraint c) {
+  switch (c) {
+    case Constraint::kPositive: return "greater than zero";
+    case Constraint::kNonNegative: return "zero or more";
+    case Constraint::kPositiveInteger: return "a whole number of 1 or more";
+    case Constraint::kFraction: return "between 0 and 0.1";
+    case Constraint::kAny: return "";
+  }
+  return "";
+}
+
+bool Satisfies(Constraint c, double v) {
+  switch (c) {
+    case Constraint::kPositive: return v > 0;
+    case Constraint::kNonNegative: return v >= 0;
+    case Constraint::kPositiveInteger: return v >= 1 && v == std::floor(v) && v < 1e6;
+    case Constraint::kFraction: return v > 0 && v <= 0.1;
+    case Constraint::kAny: return true;
+  }
+  return true;
+}
+
+// Is `key` of the form hN with 2 <= N <= 50?
+int HarmonicOrder(const std::string& key) {
+  if (key.size() < 2 || key.size() > 3 || key[0] != 'h') return 0;
+  for (std::size_t i = 1; i < key.size(); ++i)
+    if (key[i] < '0' || key[i] > '9') return 0;
+  int n = std::stoi(key.substr(1));
+  return n >= 2 && n <= 50 ? n : 0;
+}
+
+class Elaborator {
+ public:
+  Elaborator(Design& design, Diagnostics& diags) : design_(design), diags_(diags) {}
+
+  void RunFile(const std::string& path) {
+    std::string text;
+    std::string error;
+    if (!ReadFile(path, &text, &error)) {
+      diags_.Error({}, fmt::format("cannot read '{}': {}", path, error));
+      return;
+    }
+    include_stack_.push_back(Canonical(path));
+    RunText(std::make_shared<SourceFile>(path, std::move(text)));
+  }
+
+  void RunText(FilePtr file) {
+    design_.files.push_back(file);
+    Layout layout = LayOut(file, diags_);
+    for (const auto& span : layout.statements) {
+      if (diags_.saturated()) return;
+      auto statement = ParseStatement(file, layout.clean, span, diags_);
+      if (statement) Statement(*statement, file);
+    }
+  }
+
+  void Finish() {
+    // Probes refer to unknowns by index: number them first.
+    design_.circuit.Finalize();
+    for (const auto& p : probes_) CompileProbe(p);
+    if (design_.study.steady && design_.study.steady->frequency == 0.0) {
+      if (design_.study.fundamental > 0) {
+        design_.study.steady->frequency = design_.study.fundamental;
+      } else {
+        diags_.Error(design_.study.steady->loc,
+                     "steady needs a periodic source to know the cycle",
+                     "add a supply or a sinusoidal source, or give steady f = ...");
+      }
+    }
+    if (design_.circuit.devices().empty() && !diags_.has_errors() && !design_.files.empty()) {
+      diags_.Error(SourceLoc{design_.files.front(), 0}, "the netlist describes no circuit",
+                   "add elements such as: resistor R1 (a, gnd) R = 10 ohm");
+    }
+  }
+
+ private:
+  // ---- statements ---------------------------------------------------------
+
+  void Statement(const ast::Statement& s, const FilePtr& file) {
+    const std::string& kw = s.keyword.name;
+    if (kw == "param") return Param(s, file);
+    if (kw == "include") return Include(s, file);
+    if (kw == "probe") return ProbeStatement(s, file);
+    if (kw == "simulate" || kw == "steady") return StudyStatement(s, file);
+    if (const KindSpec* kind = FindElementKind(kw)) return Element(*kind, s, file);
+    static const std::set<std::string> kLater{"case", "sweep", "define", "transformer", "core",
+                                              "winding", "thyristor", "firing", "at", "set"};
+    if (kLater.count(kw)) {
+      Error(file, s.keyword.offset, fmt::format("'{}' is not supported by this version", kw));
+      return;
+    }
+    Error(file, s.keyword.offset, fmt::format("unknown kind or statement '{}'", kw),
+          "element kinds are " + KindList() +
+              "; statements are param, include, simulate, steady, probe");
+  }
+
+  // A statement of the form `keyword NAME = value` (param, probe).
+  const ast::Setting* SingleSetting(const ast::Statement& s, const FilePtr& file) {
+    const std::string& kw = s.keyword.name;
+    if (s.name || s.ports || s.text || s.settings.size() != 1) {
+      std::size_t at = s.name ? s.name->offset
+                     : s.ports ? s.ports->offset
+                     : s.text ? s.text->offset
+                     : s.settings.size() > 1 ? s.settings[1].offset
+                                             : s.keyword.offset;
+      Error(file, at, fmt::format("{} takes exactly one NAME = value", kw),
+            fmt::format("for example: {} x = 2 * 3 A", kw));
+      return nullptr;
+    }
+    if (s.settings[0].value.get().type() != typeid(ast::Expr)) {
+      Error(file, s.settings[0].value.get().type() == typeid(ast::Tuple)
+                      ? boost::get<ast::Tuple>(s.settings[0].value).offset
+                      : s.settings[0].offset,
+            fmt::format("{} needs an expression, not a node list", kw));
+      return nullptr;
+    }
+    return &s.settings[0];
+  }
+
+  void Param(const ast::Statement& s, const FilePtr& file) {
+    const ast::Setting* set = SingleSetting(s, file);
+    if (!set) return;
+    const std::string& name = set->key.name;
+    if (!DeclareName(name, file, set->key.offset)) return;
+    auto q = EvaluateConstant(boost::get<ast::Expr>(set->value), file);
+    if (q) params_[name] = *q;
+  }
+
+  void Include(const ast::Statement& s, const FilePtr& file) {
+    if (!s.text || s.name || s.ports || !s.settings.empty()) {
+      Error(file, s.keyword.offset, "include takes one quoted path", "for example: include \"grid.lcc\"");
+      return;
+    }
+    const std::size_t at = s.text->offset;
+    fs::path base = fs::path(file->path()).parent_path();
+    fs::path target = fs::path(s.text->value).is_absolute() ? fs::path(s.text->value)
+                                                            : base / s.text->value;
+    const std::string canonical = Canonical(target.string());
+    for (std::size_t i = 0; i < include_stack_.size(); ++i) {
+      if (include_stack_[i] == canonical) {
+        std::string chain;
+        for (std::size_t k = i; k < include_stack_.size(); ++k)
+          chain += fs::path(include_stack_[k]).filename().string() + " -> ";
+        chain += fs::path(canonical).filename().string();
+        Error(file, at, "include cycle: " + chain);
+        return;
+      }
+    }
+    if (static_cast<int>(include_stack_.size()) >= kMaxIncludeDepth) {
+      Error(file, at, fmt::format("includes nested deeper than {}", kMaxIncludeDepth));
+      return;
+    }
+    std::string text, error;
+    if (!ReadFile(target.string(), &text, &error)) {
+      Error(file, at, fmt::format("cannot read '{}': {}", target.string(), error));
+      return;
+    }
+    include_stack_.push_back(canonical);
+    RunText(std::make_shared<SourceFile>(target.string(), std::move(text)));
+    include_stack_.pop_back();
+  }
+
+  void ProbeStatement(const ast::Statement& s, const FilePtr& file) {
+    const ast::Setting* set = SingleSetting(s, file);
+    if (!set) return;
+    auto [it, inserted] = probe_names_.emplace(set->key.name, SourceLoc{file, set->key.offset});
+    if (!inserted) {
+      Error(file, set->key.offset, fmt::format("probe '{}' is already defined", set->key.name));
+      diags_.Note(it->second, "first defined here");
+      return;
+    }
+    probes_.push_back({*set, file});
+  }
+
+  void StudyStatement(const ast::Statement& s, const FilePtr& file) {
+    const KindSpec* spec = nullptr;
+    for (const auto& k : StudyStatements())
+      if (k.name == s.keyword.name) spec = &k;
+    if (s.name || s.ports || s.text) {
+      std::size_t at = s.name ? s.name->offset : s.ports ? s.ports->offset : s.text->offset;
+      Error(file, at, fmt::format("{} takes only key = value settings", spec->name));
+      return;
+    }
+    Settings set;
+    if (!ReadSettings(*spec, s, file, &set)) return;
+    SourceLoc loc{file, s.keyword.offset};
+    if (spec->name == "simulate") {
+      if (design_.study.simulate) {
+        Error(file, s.keyword.offset, "a second simulate statement");
+        diags_.Note(design_.study.simulate->loc, "the first is here");
+        return;
+      }
+      SimulateSpec sim;
+      sim.stop = set.number("stop");
+      sim.sample = set.number("sample");
+      sim.reltol = set.number("reltol", 1e-6);
+      sim.max_step = set.number("max_step");
+      sim.loc = loc;
+      design_.study.simulate = sim;
+    } else {
+      if (design_.study.steady) {
+        Error(file, s.keyword.offset, "a second steady statement");
+        diags_.Note(design_.study.steady->loc, "the first is here");
+        return;
+      }
+      SteadySpec st;
+      st.cycles = static_cast<int>(set.number("cycles", 2));
+      st.tol = set.number("tol", 1e-5);
+      st.settle_max = set.number("settle_max");
+      st.frequency = set.number("f");
+      st.loc = loc;
+      design_.study.steady = st;
+    }
+  }
+
+  // ---- elements -------------------------------------------------------------
+
+  void Element(const KindSpec& kind, const ast::Statement& s, const FilePtr& file) {
+    if (!s.name) {
+      Error(file, s.keyword.offset + kind.name.size(),
+            fmt::format("{} needs a name", kind.name),
+            fmt::format("for example: {} X1 ...", kind.name));
+      return;
+    }
+    if (s.text) {
+      Error(file, s.text->offset, "unexpected quoted text");
+      return;
+    }
+    const std::string& name = s.name->name;
+    const bool named_ok = DeclareName(name, file, s.name->offset);
+
+    // Positional ports.
+    std::vector<ast::Ident> ports;
+    if (!kind.ports.empty()) {
+      std::string expected = "(";
+      for (std::size_t i = 0; i < kind.ports.size(); ++i)
+        expected += (i ? ", " : "") + std::string(kind.ports[i]);
+      expected += ")";
+      if (!s.ports) {
+        Error(file, s.name->offset + name.size(),
+              fmt::format("{} {} needs its ports {} after the name", kind.name, name, expected));
+        return;
+      }
+      if (s.ports->items.empty()) {
+        Error(file, s.ports->offset, fmt::format("empty port list: {} takes {}", kind.name, expected));
+        return;
+      }
+      if (s.ports->items.size() != kind.ports.size()) {
+        Error(file, s.ports->offset,
+              fmt::format("{} takes {} ports {}, found {}", kind.name, kind.ports.size(), expected,
+                          s.ports->items.size()));
+        return;
+      }
+      ports = s.ports->items;
+    } else if (s.ports) {
+      Error(file, s.ports->offset,
+            fmt::format("{} has no positional ports; name its port groups, e.g. ac = (a, b, c)",
+                        kind.name));
+      return;
+    }
+
+    Settings set;
+    if (!ReadSettings(kind, s, file, &set) || !named_ok) return;
+    SourceLoc loc{file, s.name->offset};
+    auto node = [&](const ast::Ident& id) { return design_.circuit.Node(id.name, SourceLoc{file, id.offset}); };
+
+    // Two-terminal elements whose terminals coincide are always a mistake.
+    if (ports.size() == 2 && ports[0].name == ports[1].name) {
+      Error(file, ports[1].offset,
+            fmt::format("both ports of {} {} are node '{}'", kind.name, name, ports[0].name),
+            "an element must connect two different nodes");
+      return;
+    }
+
+    Circuit& c = design_.circuit;
+    if (kind.name == "resistor") {
+      c.Add(std::make_unique<Resistor>(name, loc, node(ports[0]), node(ports[1]), set.number("R")));
+    } else if (kind.name == "inductor") {
+      c.Add(std::make_unique<Inductor>(name, loc, node(ports[0]), node(ports[1]), set.number("L"),
+                                       set.number("R"), set.number("i0")));
+    } else if (kind.name == "capacitor") {
+      c.Add(std::make_unique<Capacitor>(name, loc, node(ports[0]), node(ports[1]), set.number("C"),
+                                        set.number("v0")));
+    } else if (kind.name == "voltage_source" || kind.name == "current_source") {
+      auto w = SourceWaveform(kind, s, file, set);
+      if (!w) return;
+      if (kind.name == "voltage_source")
+        c.Add(std::make_unique<VoltageSource>(name, loc, node(ports[0]), node(ports[1]), *w));
+      else
+        c.Add(std::make_unique<CurrentSource>(name, loc, node(ports[0]), node(ports[1]), *w));
+    } else if (kind.name == "switch") {
+      ValveParams p{set.number("Ron", 1e-3), set.number("Roff", 1e6), 0.0};
+      if (!CheckValveParams(p, set, file)) return;
+      c.Add(std::make_unique<Valve>(name, loc, node(ports[0]), node(ports[1]), Valve::Type::kSwitch,
+                                    p, set.words["state"] != "open"));
+    } else if (kind.name == "diode") {
+      ValveParams p{set.number("Ron", 1e-3), set.number("Roff", 1e6), set.number("Vf")};
+      if (!CheckValveParams(p, set, file)) return;
+      c.Add(std::make_unique<Valve>(name, loc, node(ports[0]), node(ports[1]), Valve::Type::kDiode, p));
+    } else if (kind.name == "supply") {
+      Supply(name, loc, ports, set, s, file);
+    } else if (kind.name == "bridge") {
+      Bridge(name, loc, set, s, file);
+    }
+  }
+
+  std::optional<Waveform> SourceWaveform(const KindSpec& kind, const ast::Statement& s,
+                                         const FilePtr& file, const Settings& set) {
+    Waveform w;
+    w.dc = set.number("dc");
+    if (set.has("peak") && set.has("rms")) {
+      diags_.Error(set.where.at("rms"), "give peak or rms, not both");
+      return std::nullopt;
+    }
+    const bool sine = set.has("peak") || set.has("rms");
+    if (sine && !set.has("f")) {
+      Error(file, s.name->offset, fmt::format("{} {} needs f with peak or rms", kind.name, s.name->name));
+      return std::nullopt;
+    }
+    if (!sine && set.has("f")) {
+      diags_.Error(set.where.at("f"), "f without peak or rms", "give the amplitude with peak = or rms =");
+      return std::nullopt;
+    }
+    if (sine) {
+      double peak = set.has("peak") ? set.number("peak") : std::sqrt(2.0) * set.number("rms");
+      w.sines.push_back({peak, set.number("f"), set.number("phase")});
+      if (design_.study.fundamental == 0.0) design_.study.fundamental = set.number("f");
+    }
+    return w;
+  }
+
+  bool CheckValveParams(const ValveParams& p, const Settings& set, const FilePtr& file) {
+    if (p.r_off <= p.r_on) {
+      SourceLoc at = set.has("Roff") ? set.where.at("Roff") : set.has("Ron") ? set.where.at("Ron") : SourceLoc{file, 0};
+      diags_.Error(at, fmt::format("Roff ({} ohm) must be larger than Ron ({} ohm)", p.r_off, p.r_on));
+      return false;
+    }
+    return true;
+  }
+
+  // A supply is, per phase, an EMF from the star point to an inner node and
+  // the source impedance from there to the terminal:
+  //   e_k(t) = √2/√3·Vll·[sin(θ_k) + u·sin(θ'_k) + Σ_n h_n·sin(n·θ_k)],
+  //   θ_k = 2πf·t + phase − k·120°,  θ'_k = 2πf·t + phase + k·120°,
+  // where u is the negative-sequence unbalance. With Ssc and xr the
+  // impedance is Z = Vll²/Ssc split as R = Z/√(1 + xr²), X = xr·R.
+  void Supply(const std::string& name, const SourceLoc& loc, const std::vector<ast::Ident>& ports,
+              const Settings& set, const ast::Statement& s, const FilePtr& file) {
+    const bool by_ssc = set.has("Ssc");
+    const bool by_rl = set.has("R") || set.has("L");
+    if (by_ssc && by_rl) {
+      diags_.Error(set.where.at("Ssc"), "give Ssc (with xr) or R and L, not both");
+      return;
+    }
+    if (!by_ssc && !by_rl) {
+      Error(file, s.name->offset, fmt::format("supply {} needs Ssc (with xr) or R and L", name),
+            "R = 0 ohm  L = 0 H makes an ideal source");
+      return;
+    }
+    if (set.has("xr") && !by_ssc) {
+      diags_.Error(set.where.at("xr"), "xr goes with Ssc");
+      return;
+    }
+    const double vll = set.number("Vll"), f = set.number("f"), phase = set.number("phase");
+    const double w = 2.0 * std::numbers::pi * f;
+    double r = set.number("R"), l = set.number("L");
+    if (by_ssc) {
+      const double z = vll * vll / set.number("Ssc");
+      const double xr = set.number("xr", 10.0);
+      r = z / std::sqrt(1.0 + xr * xr);
+      l = xr * r / w;
+    }
+    int star = 0;
+    if (set.nodes.count("neutral")) {
+      const auto& id = set.nodes.at("neutral")[0];
+      star = design_.circuit.Node(id.name, SourceLoc{file, id.offset});
+    }
+    if (design_.study.fundamental == 0.0) design_.study.fundamental = f;
+    const double vph = std::sqrt(2.0 / 3.0) * vll;
+    const double u = set.number("unbalance");
+    std::vector<std::pair<int, double>> harmonics;
+    for (const auto& [key, value] : set.numbers)
+      if (int n = HarmonicOrder(key)) harmonics.emplace_back(n, value);
+
+    const char* phases[3] = {"a", "b", "c"};
+    for (int k = 0; k < 3; ++k) {
+      const double shift = -k * 2.0 * std::numbers::pi / 3.0;
+      Waveform e;
+      e.sines.push_back({vph, f, phase + shift});
+      if (u > 0) e.sines.push_back({u * vph, f, phase - shift});
+      for (const auto& [n, h] : harmonics)
+        if (h > 0) e.sines.push_back({h * vph, n * f, n * (phase + shift)});
+      const std::string ph = phases[k];
+      const int terminal = design_.circuit.Node(ports[k].name, SourceLoc{file, ports[k].offset});
+      Circuit& c = design_.circuit;
+      if (r == 0.0 && l == 0.0) {
+        auto& src = c.Add(std::make_unique<VoltageSource>(name + ".e" + ph, loc, terminal, star, e));
+        c.AddAlias(name + "." + ph, {&src, 1.0});
+        continue;
+      }
+      const int inner = c.Node(name + "." + ph + "_emf", loc);
+      c.Add(std::make_unique<VoltageSource>(name + ".e" + ph, loc, inner, star, e));
+      if (l > 0.0) {
+        auto& z = c.Add(std::make_unique<Inductor>(name + ".z" + ph, loc, inner, terminal, l, r, 0.0));
+        c.AddAlias(name + "." + ph, {&z, 1.0});
+      } else {
+        auto& z = c.Add(std::make_unique<Resistor>(name + ".z" + ph, loc, inner, terminal, r));
+        c.AddAlias(name + "." + ph, {&z, 1.0});
+      }
+    }
+  }
+
+  // Valves in the trade's conduction order: 1 a→p, 2 n→c, 3 b→p, 4 n→a,
+  // 5 c→p, 6 n→b (anode → cathode).
+  void Bridge(const std::string& name, const SourceLoc& loc, const Settings& set,
+              const ast::Statement& s, const FilePtr& file) {
+    if (set.has("snubber_R") != set.has("snubber_C")) {
+      Error(file, s.name->offset, "give both snubber_R and snubber_C, or neither");
+      return;
+    }
+    ValveParams p{set.number("Ron", 1e-3), set.number("Roff", 1e6), set.number("Vf")};
+    if (!CheckValveParams(p, set, file)) return;
+    Circuit& c = design_.circuit;
+    auto node = [&](const ast::Ident& id) { return c.Node(id.name, SourceLoc{file, id.offset}); };
+    const auto& ac = set.nodes.at("ac");
+    const auto& dc = set.nodes.at("dc");
+    const int a = node(ac[0]), b = node(ac[1]), cc = node(ac[2]), pos = node(dc[0]), neg = node(dc[1]);
+    const int anode[6] = {a, neg, b, neg, cc, neg};
+    const int cathode[6] = {pos, cc, pos, a, pos, b};
+    ValveGroup group{name, {}, loc};
+    for (int k = 0; k < 6; ++k) {
+      const std::string vname = fmt::format("{}[{}]", name, k + 1);
+      group.devices.push_back(static_cast<int>(c.devices().size()));
+      c.Add(std::make_unique<Valve>(vname, loc, anode[k], cathode[k], Valve::Type::kDiode, p));
+      if (set.has("snubber_R")) {
+        const int mid = c.Node(vname + ".snubber", loc);
+        c.Add(std::make_unique<Resistor>(vname + ".snubber_R", loc, anode[k], mid, set.number("snubber_R")));
+        c.Add(std::make_unique<Capacitor>(vname + ".snubber_C", loc, mid, cathode[k], set.number("snubber_C"), 0.0));
+      }
+    }
+    c.AddValveGroup(std::move(group));
+  }
+
+  // ---- settings -------------------------------------------------------------
+
+  bool ReadSettings(const KindSpec& kind, const ast::Statement& s, const FilePtr& file, Settings* out) {
+    bool ok = true;
+    for (const auto& setting : s.settings) {
+      const std::string& key = setting.key.name;
+      SourceLoc key_loc{file, setting.key.offset};
+      if (out->where.count(key)) {
+        Error(file, setting.key.offset, fmt::format("'{}' is set twice", key));
+        diags_.Note(out->where[key], "first set here");
+        ok = false;
+        continue;
+      }
+      const KeySpec* spec = FindKey(kind, key);
+      KeySpec harmonic;
+      if (!spec && kind.harmonic_keys && HarmonicOrder(key)) {
+        harmonic.name = key;
+        harmonic.dim = dims::kNone;
+        harmonic.constraint = Constraint::kNonNegative;
+        spec = &harmonic;
+      }
+      if (!spec) {
+        Error(file, setting.key.offset, fmt::format("{} has no key '{}'", kind.name, key),
+              "its keys are: " + KeyList(kind));
+        ok = false;
+        continue;
+      }
+      out->where[key] = key_loc;
+      const bool is_tuple = setting.value.get().type() == typeid(ast::Tuple);
+      if (spec->type == KeyType::kNodes) {
+        std::vector<ast::Ident> nodes;
+        std::size_t at = setting.offset;
+        if (is_tuple) {
+          const auto& t = boost::get<ast::Tuple>(setting.value);
+          nodes = t.items;
+          at = t.offset;
+        } else {
+          const auto& e = boost::get<ast::Expr>(setting.value);
+          at = e.offset;
+          if (auto id = SingleName(e)) nodes.push_back(*id);
+        }
+        if (static_cast<int>(nodes.size()) != spec->count) {
+          Error(file, at,
+                spec->count == 1
+                    ? fmt::format("{} needs one node name", key)
+                    : fmt::format("{} needs {} nodes in brackets, found {}", key, spec->count,
+                                  nodes.empty() ? std::string("something else")
+                                                : std::to_string(nodes.size())));
+          ok = false;
+          continue;
+        }
+        out->nodes[key] = nodes;
+        continue;
+      }
+      if (is_tuple) {
+        Error(file, boost::get<ast::Tuple>(setting.value).offset,
+              fmt::format("{} takes a value, not a node list", key));
+        ok = false;
+        continue;
+      }
+      const auto& expr = boost::get<ast::Expr>(setting.value);
+      if (spec->type == KeyType::kWord) {
+        auto id = SingleName(expr);
+        std::string words;
+        for (auto w : spec->words) words += (words.empty() ? "" : ", ") + std::string(w);
+        if (!id || std::find(spec->words.begin(), spec->words.end(), id->name) == spec->words.end()) {
+          Error(file, expr.offset, fmt::format("{} must be one of: {}", key, words));
+          ok = false;
+          continue;
+        }
+        out->words[key] = id->name;
+        continue;
+      }
+      auto q = EvaluateConstant(expr, file);
+      if (!q) {
+        ok = false;
+        continue;
+      }
+      if (!q->dim.dimensionless() && !(q->dim == spec->dim)) {
+        Error(file, expr.offset,
+              fmt::format("{} of {} expects {}, found {}", key, kind.name, DimName(spec->dim),
+                          DimName(q->dim)));
+        ok = false;
+        continue;
+      }
+      if (!Satisfies(spec->constraint, q->value)) {
+        Error(file, expr.offset,
+              fmt::format("{} must be {}, found {:g}{}", key, ConstraintText(spec->constraint),
+                          q->value, spec->dim.dimensionless() ? "" : " " + UnitLabel(spec->dim)));
+        ok = false;
+        continue;
+      }
+      out->numbers[key] = q->value;
+    }
+    // Defaults and required keys.
+    for (const auto& spec : kind.keys) {
+      const std::string key(spec.name);
+      if (out->where.count(key)) continue;
+      if (spec.required) {
+        std::size_t at = s.name ? s.name->offset : s.keyword.offset;
+        Error(file, at, fmt::format("{} needs {} ({})", kind.name, key,
+                                    spec.type == KeyType::kNumber ? DimName(spec.dim) : std::string(spec.doc)));
+        ok = false;
+      } else if (spec.default_value) {
+        out->numbers[key] = *spec.default_value;
+      } else if (spec.type == KeyType::kWord) {
+        out->words[key] = std::string(spec.default_word);
+      }
+    }
+    return ok;
+  }
+
+  static std::optional<ast::Ident> SingleName(const ast::Expr& e) {
+    if (!e.rest.empty()) return std::nullopt;
+    if (e.first.get().type() == typeid(ast::Path)) {
+      const auto& p = boost::get<ast::Path>(e.first);
+      if (p.parts.size() == 1 && p.parts[0].index < 0) {
+        ast::Ident id;
+        id.offset = p.offset;
+        id.name = p.parts[0].name;
+        return id;
+      }
+    }
+    if (e.first.get().type() == typeid(ast::x3::forward_ast<ast::Expr>))
+      return SingleName(boost::get<ast::x3::forward_ast<ast::Expr>>(e.first).get());
+    return std::nullopt;
+  }
+
+  std::optional<Quantity> EvaluateConstant(const ast::Expr& expr, const FilePtr& file) {
+    PathResolver resolve = [&](const ast::Path& p) -> std::optional<Resolved> {
+      if (p.parts.size() == 1 && p.parts[0].index < 0) {
+        auto it = params_.find(p.parts[0].name);
+        if (it != params_.end()) return Resolved{Resolved::Kind::kConstant, it->second, 0, {}};
+        Error(file, p.offset, fmt::format("undefined parameter '{}'", p.parts[0].name),
+              names_.count(p.parts[0].name) ? "it is an element, not a parameter"
+                                            : "define it first with: param NAME = value");
+        return std::nullopt;
+      }
+      Error(file, p.offset, "element quantities can only be used in probe statements");
+      return std::nullopt;
+    };
+    auto program = CompileExpression(expr, file, resolve, diags_);
+    if (!program) return std::nullopt;
+    auto value = EvaluateProgram(*program, nullptr, file, &diags_);
+    if (!value) return std::nullopt;
+    return Quantity{*value, program->dim};
+  }
+
+  // ---- probes ----------------------------------------------------------------
+
+  void CompileProbe(const PendingProbe& pending) {
+    const FilePtr& file = pending.file;
+    Probe probe;
+    probe.name = pending.setting.key.name;
+    probe.loc = SourceLoc{file, pending.setting.key.offset};
+    std::map<std::string, int> slot_of;
+    const Circuit& c = design_.circuit;
+    PathResolver resolve = [&](const ast::Path& p) -> std::optional<Resolved> {
+      std::string key;
+      for (const auto& part : p.parts) {
+        if (!key.empty()) key += '.';
+        key += part.name;
+        if (part.index >= 0) key += fmt::format("[{}]", part.index);
+      }
+      LinearForm form;
+      Dim dim;
+      if (p.parts.size() == 1 && p.parts[0].index < 0) {
+        int node = c.FindNode(key);
+        if (node > 0) {
+          form.AddY(NodeUnknown(node), 1.0);
+          dim = dims::kVoltage;
+        } else if (node == 0) {
+          dim = dims::kVoltage;  // ground: an empty form is 0 V
+        } else if (auto it = params_.find(key); it != params_.end()) {
+          return Resolved{Resolved::Kind::kConstant, it->second, 0, {}};
+        } else {
+          Error(file, p.offset, fmt::format("no node or parameter named '{}'", key));
+          return std::nullopt;
+        }
+      } else {
+        const auto& last = p.parts.back();
+        if (last.index >= 0 || (last.name != "i" && last.name != "v")) {
+          Error(file, p.offset, fmt::format("'{}' is not a quantity: probe .i (current) or .v (voltage)",
+                                            last.name));
+          return std::nullopt;
+        }
+        const std::string element = key.substr(0, key.size() - last.name.size() - 1);
+        const Device* device = nullptr;
+        double sign = 1.0;
+        if (const DeviceAlias* alias = c.FindAlias(element)) {
+          if (last.name != "i") {
+            Error(file, p.offset, fmt::format("'{}' has only a current (.i)", element));
+            return std::nullopt;
+          }
+          device = alias->device;
+          sign = alias->sign;
+        } else {
+          device = c.FindDevice(element);
+        }
+        if (!device) {
+          Error(file, p.offset, fmt::format("no element named '{}'", element));
+          return std::nullopt;
+        }
+        if (!device->Signal(last.name, &form, &dim)) {
+          Error(file, p.offset,
+                fmt::format("{} {} has no probe-able .{}", device->kind_name(), element, last.name));
+          return std::nullopt;
+        }
+        for (auto& t : form.y) t.second *= sign;
+        for (auto& t : form.yp) t.second *= sign;
+      }
+      auto [it, inserted] = slot_of.emplace(key, static_cast<int>(probe.slots.size()));
+      if (inserted) {
+        if (probe.slots.size() >= 32) {
+          Error(file, p.offset, "a probe may use at most 32 quantities");
+          return std::nullopt;
+        }
+        probe.slots.push_back(form);
+      }
+      Resolved r;
+      r.kind = Resolved::Kind::kSignal;
+      r.slot = it->second;
+      r.dim = dim;
+      return r;
+    };
+    auto program = CompileExpression(boost::get<ast::Expr>(pending.setting.value), file, resolve, diags_);
+    if (!program) return;
+    probe.program = std::move(*program);
+    probe.dim = probe.program.dim;
+    design_.study.probes.push_back(std::move(probe));
+  }
+
+  // ---- helpers ---------------------------------------------------------------
+
+  bool DeclareName(const std::string& name, const FilePtr& file, std::size_t offset) {
+    if (name == "gnd" || name == "pi") {
+      Error(file, offset, fmt::format("'{}' is reserved", name));
+      return false;
+    }
+    auto [it, inserted] = names_.emplace(name, SourceLoc{file, offset});
+    if (!inserted) {
+      Error(file, offset, fmt::format("'{}' is already defined", name));
+      diags_.Note(it->second, "first defined here");
+      return false;
+    }
+    return true;
+  }
+
+  static std::string Canonical(const std::string& path) {
+    std::error_code ec;
+    auto p = fs::weakly_canonical(fs::path(path), ec);
+    return ec ? path : p.string();
+  }
+
+  static bool ReadFile(const std::string& path, std::string* text, std::string* error) {
+    std::error_code ec;
+    if (fs::is_directory(path, ec)) {
+      *error = "it is a folder";
+      return false;
+    }
+    auto size = fs::file_size(path, ec);
+    if (ec) {
+      *error = ec.message();
+      return false;
+    }
+    if (size > kMaxFileBytes) {
+      *error = "larger than 64 MiB";
+      return false;
+    }
+    std::ifstream in(path, std::ios::binary);
+    if (!in) {
+      *error = "cannot open it";
+      return false;
+    }
+    std::ostringstream buffer;
+    buffer << in.rdbuf();
+    *text = buffer.str();
+    return true;
+  }
+
+  void Error(const FilePtr& file, std::size_t offset, std::string message, std::string hint = {}) {
+    diags_.Error(SourceLoc{file, offset}, std::move(message), std::move(hint));
+  }
+
+  Design& design_;
+  Diagnostics& diags_;
+  std::map<std::string, Quantity> params_;
+  std::map<std::string, SourceLoc> names_;
+  std::map<std::string, SourceLoc> probe_names_;
+  std::vector<PendingProbe> probes_;
+  std::vector<std::string> include_stack_;
+};
+
+}  // namespace
+
+std::unique_ptr<Design> ElaborateFile(const std::string& path, Diagnostics& diags) {
+  auto design = std::make_unique<Design>();
+  Elaborator e(*design, diags);
+  e.RunFile(path);
+  if (!diags.has_errors()) e.Finish();
+  if (diags.has_errors()) return nullptr;
+  return design;
+}
+
+std::unique_ptr<Design> ElaborateText(const std::string& name, std::string text, Diagnostics& diags) {
+  auto design = std::make_unique<Design>();
+  Elaborator e(*design, diags);
+  e.RunText(std::make_shared<SourceFile>(name, std::move(text)));
+  if (!diags.has_errors()) e.Finish();
+  if (diags.has_errors()) return nullptr;
+  return design;
+}
+
+}  // namespace lcc

@@ -1,0 +1,177 @@
+#include "parser/kinds.h"
+
+namespace lcc {
+namespace {
+
+KeySpec Num(std::string_view name, Dim dim, std::optional<double> def, Constraint c,
+            std::string_view doc, bool required = false) {
+  KeySpec k;
+  k.name = name;
+  k.dim = dim;
+  k.default_value = def;
+  k.constraint = c;
+  k.doc = doc;
+  k.required = required;
+  return k;
+}
+KeySpec Angle(std::string_view name, double def, std::string_view doc) {
+  KeySpec k = Num(name, dims::kNone, def, Constraint::kAny, doc);
+  k.angle = true;
+  return k;
+}
+KeySpec Word(std::string_view name, std::vector<std::string_view> words,
+             std::optional<std::string_view> def, std::string_view doc) {
+  KeySpec k;
+  k.name = name;
+  k.type = KeyType::kWord;
+  k.words = std::move(words);
+  k.required = !def.has_value();
+  k.default_word = def.value_or("");
+  k.doc = doc;
+  return k;
+}
+KeySpec Nodes(std::string_view name, int count, bool required, std::string_view doc) {
+  KeySpec k;
+  k.name = name;
+  k.type = KeyType::kNodes;
+  k.count = count;
+  k.required = required;
+  k.doc = doc;
+  return k;
+}
+
+constexpr Constraint kPos = Constraint::kPositive;
+constexpr Constraint kNonNeg = Constraint::kNonNegative;
+constexpr Constraint kAnyValue = Constraint::kAny;
+
+std::vector<KeySpec> SourceKeys(Dim dim) {
+  return {
+      Num("dc", dim, 0.0, kAnyValue, "constant part"),
+      Num("peak", dim, std::nullopt, kNonNeg, "peak of the sinusoidal part"),
+      Num("rms", dim, std::nullopt, kNonNeg, "rms of the sinusoidal part (instead of peak)"),
+      Num("f", dims::kFrequency, std::nullopt, kPos, "frequency of the sinusoidal part; required with peak or rms"),
+      Angle("phase", 0.0, "phase of the sinusoid at t = 0 (sine reference)"),
+  };
+}
+
+std::vector<KeySpec> ValveKeys() {
+  return {
+      Num("Ron", dims::kResistance, 1e-3, kPos, "on-state resistance"),
+      Num("Roff", dims::kResistance, 1e6, kPos, "off-state resistance"),
+      Num("Vf", dims::kVoltage, 0.0, kNonNeg, "forward voltage drop while conducting"),
+  };
+}
+
+}  // namespace
+
+const std::vector<KindSpec>& ElementKinds() {
+  static const std::vector<KindSpec> kKinds = [] {
+    std::vector<KindSpec> kinds;
+    kinds.push_back({"resistor", {"a", "b"},
+                     {Num("R", dims::kResistance, std::nullopt, kPos, "resistance", true)},
+                     "a linear resistor"});
+    kinds.push_back({"inductor", {"a", "b"},
+                     {Num("L", dims::kInductance, std::nullopt, kPos, "inductance", true),
+                      Num("R", dims::kResistance, 0.0, kNonNeg, "series resistance"),
+                      Num("i0", dims::kCurrent, 0.0, kAnyValue, "current from a to b at t = 0")},
+                     "a linear inductor with optional series resistance"});
+    kinds.push_back({"capacitor", {"a", "b"},
+                     {Num("C", dims::kCapacitance, std::nullopt, kPos, "capacitance", true),
+                      Num("v0", dims::kVoltage, 0.0, kAnyValue, "voltage a minus b at t = 0")},
+                     "a linear capacitor"});
+    kinds.push_back({"voltage_source", {"p", "n"}, SourceKeys(dims::kVoltage),
+                     "an ideal voltage source, v(p) − v(n) = dc + peak·sin(2πf·t + phase)"});
+    kinds.push_back({"current_source", {"p", "n"}, SourceKeys(dims::kCurrent),
+                     "an ideal current source driving dc + peak·sin(2πf·t + phase) out of p"});
+    {
+      KindSpec supply{"supply", {"a", "b", "c"}, {}, "a three-phase network equivalent", true};
+      supply.keys = {
+          Num("Vll", dims::kVoltage, std::nullopt, kPos, "rms line-to-line voltage of the EMF", true),
+          Num("f", dims::kFrequency, std::nullopt, kPos, "frequency", true),
+          Angle("phase", 0.0, "phase of the phase-a EMF at t = 0 (sine reference)"),
+          Num("Ssc", dims::kPower, std::nullopt, kPos, "short-circuit power at the terminals"),
+          Num("xr", dims::kNone, 10.0, kPos, "X/R ratio of the source impedance (with Ssc)"),
+          Num("R", dims::kResistance, std::nullopt, kNonNeg, "resistance per phase (instead of Ssc)"),
+          Num("L", dims::kInductance, std::nullopt, kNonNeg, "inductance per phase (instead of Ssc)"),
+          Num("unbalance", dims::kNone, 0.0, kNonNeg, "negative-sequence EMF, fraction of positive sequence"),
+          Nodes("neutral", 1, false, "node of the star point (default: gnd)"),
+      };
+      kinds.push_back(std::move(supply));
+    }
+    {
+      std::vector<KeySpec> keys = {Word("state", {"open", "closed"}, "closed", "position")};
+      for (auto& k : ValveKeys())
+        if (k.name != "Vf") keys.push_back(k);
+      keys[1].doc = "resistance when closed";
+      keys[2].doc = "resistance when open";
+      kinds.push_back({"switch", {"a", "b"}, keys, "a switch held open or closed"});
+    }
+    kinds.push_back({"diode", {"anode", "cathode"}, ValveKeys(), "a diode valve"});
+    {
+      std::vector<KeySpec> keys = {
+          Nodes("ac", 3, true, "the AC terminals (a, b, c)"),
+          Nodes("dc", 2, true, "the DC terminals (p, n)"),
+          Word("valve", {"diode"}, "diode", "valve kind"),
+      };
+      for (auto& k : ValveKeys()) keys.push_back(k);
+      keys.push_back(Num("snubber_R", dims::kResistance, std::nullopt, kPos, "RC snubber resistance across each valve"));
+      keys.push_back(Num("snubber_C", dims::kCapacitance, std::nullopt, kPos, "RC snubber capacitance across each valve"));
+      kinds.push_back({"bridge", {}, keys, "a six-pulse (Graetz) bridge of six valves"});
+    }
+    return kinds;
+  }();
+  return kKinds;
+}
+
+const std::vector<KindSpec>& StudyStatements() {
+  static const std::vector<KindSpec> kStatements = [] {
+    std::vector<KindSpec> s;
+    s.push_back({"simulate", {},
+                 {Num("stop", dims::kTime, std::nullopt, kPos, "end of the run", true),
+                  Num("sample", dims::kTime, std::nullopt, kPos, "output interval (default: period/1024, or stop/10000 without a periodic source)"),
+                  Num("reltol", dims::kNone, 1e-6, Constraint::kFraction, "relative tolerance of the integrator"),
+                  Num("max_step", dims::kTime, std::nullopt, kPos, "largest integration step (default: one electrical degree, or stop/1000)")},
+                 "the run"});
+    s.push_back({"steady", {},
+                 {Num("cycles", dims::kNone, 2.0, Constraint::kPositiveInteger, "whole cycles recorded once steady"),
+                  Num("tol", dims::kNone, 1e-5, Constraint::kFraction, "largest relative change of the state over one cycle"),
+                  Num("settle_max", dims::kTime, std::nullopt, kPos, "give up waiting for steady state after this time (default: stop)"),
+                  Num("f", dims::kFrequency, std::nullopt, kPos, "fundamental frequency (default: that of the first periodic source)")},
+                 "periodic steady state"});
+    return s;
+  }();
+  return kStatements;
+}
+
+const KindSpec* FindElementKind(std::string_view name) {
+  for (const auto& k : ElementKinds())
+    if (k.name == name) return &k;
+  return nullptr;
+}
+
+const KeySpec* FindKey(const KindSpec& kind, std::string_view key) {
+  for (const auto& k : kind.keys)
+    if (k.name == key) return &k;
+  return nullptr;
+}
+
+std::string KeyList(const KindSpec& kind) {
+  std::string out;
+  for (const auto& k : kind.keys) {
+    if (!out.empty()) out += ", ";
+    out += k.name;
+  }
+  if (kind.harmonic_keys) out += ", h2 ... h50";
+  return out;
+}
+
+std::string KindList() {
+  std::string out;
+  for (const auto& k : ElementKinds()) {
+    if (!out.empty()) out += ", ";
+    out += k.name;
+  }
+  return out;
+}
+
+}  // namespace lcc

@@ -1,0 +1,37 @@
+// Test helpers: elaborate and simulate netlist text in memory, and read the
+// recorded probes over the analysis window.
+#pragma once
+
+#include <memory>
+#include <string>
+
+#include "engine/simulator.h"
+#include "engine/topology.h"
+#include "parser/elaborate.h"
+#include "results/measures.h"
+#include "results/recorder.h"
+
+namespace lcc::testing {
+
+struct SimulatedCase {
+  std::unique_ptr<Design> design;
+  std::unique_ptr<ProbeRecorder> recorder;
+  RunResult run;
+  std::string diagnostics;
+
+  // Index of a probe by name (throws if absent).
+  int ProbeIndex(const std::string& name) const;
+  const std::vector<double>& Column(const std::string& name) const;
+  // Statistics of a probe over the run's analysis window.
+  WindowStats Window(const std::string& name) const;
+  // Time of the n-th (0-based) switching of device `name` to state `on`.
+  double SwitchTime(const std::string& name, bool on, int n = 0) const;
+};
+
+// Elaborates, checks and simulates; REQUIREs that each stage succeeds.
+SimulatedCase Simulate(const std::string& text, const EngineOptions& options = {});
+
+// Elaborates and checks only; returns the rendered diagnostics (empty if none).
+std::string DiagnosticsOf(const std::string& text, const std::string& name = "test.lcc");
+
+}  // namespace lcc::testing
