@@ -9,6 +9,8 @@
 
 #include <algorithm>
 #include <chrono>
+#include <cstdio>
+#include <cstdlib>
 #include <cmath>
 #include <memory>
 #include <set>
@@ -169,7 +171,7 @@ class Run {
     Check(IDASetLinearSolver(mem, solver_.get(), jacobian_.get()), "IDASetLinearSolver");
     Check(IDASetJacFn(mem, &Run::JacobianFn), "IDASetJacFn");
     if (!valves_.empty()) {
-      Check(IDARootInit(mem, static_cast<int>(valves_.size()), &Run::RootFn), "IDARootInit");
+      Check(IDARootInit(mem, static_cast<int>(2 * valves_.size()), &Run::RootFn), "IDARootInit");
       Check(IDASetNoInactiveRootWarn(mem), "IDASetNoInactiveRootWarn");
       SetRootDirections();
     }
@@ -195,7 +197,7 @@ class Run {
     void* mem = ida_.get();
     const double dt = result_.summary.sample_used;
     double t = 0.0;
-    std::vector<int> roots(valves_.size());
+    std::vector<int> roots(2 * valves_.size());
     while (true) {
       if (options_.limits.max_steps > 0 && TotalSteps() >= options_.limits.max_steps) {
         Fail(fmt::format("step limit of {} steps reached at t = {:.6g} s", options_.limits.max_steps, t));
@@ -223,7 +225,7 @@ class Run {
         Check(IDAGetRootInfo(mem, roots.data()), "IDAGetRootInfo");
         std::vector<int> flagged;
         for (std::size_t k = 0; k < valves_.size(); ++k)
-          if (roots[k] != 0) flagged.push_back(static_cast<int>(k));
+          if (roots[2 * k] != 0 || roots[2 * k + 1] != 0) flagged.push_back(static_cast<int>(k));
         ++result_.summary.events;
         if (!HandleEvent(t, flagged)) return;
       }
@@ -306,6 +308,11 @@ class Run {
     const Valve& v = *valves_[k].valve;
     auto& state = states_[v.switch_slot()];
     state = !state;
+    if (trace_) {
+      const double* y = N_VGetArrayPointer(y_.get());
+      std::fprintf(stderr, "lccsim trace: t = %.12g s  %s -> %s  (i = %.6g A, v = %.6g V)\n", t,
+                   v.name().c_str(), state ? "on" : "off", v.Current(y), v.Voltage(y));
+    }
     result_.events.push_back({t, valves_[k].device, state != 0});
     ++result_.summary.switchings;
   }
@@ -318,9 +325,9 @@ class Run {
   }
 
   void SetRootDirections() {
-    std::vector<int> dir(valves_.size());
+    std::vector<int> dir(2 * valves_.size());
     for (std::size_t k = 0; k < valves_.size(); ++k)
-      dir[k] = states_[valves_[k].valve->switch_slot()] ? -1 : 1;
+      dir[2 * k] = dir[2 * k + 1] = states_[valves_[k].valve->switch_slot()] ? -1 : 1;
     Check(IDASetRootDirection(ida_.get(), dir.data()), "IDASetRootDirection");
   }
 
@@ -440,13 +447,26 @@ class Run {
     return 0;
   }
 
+  // Two root functions per valve. The first ends the state at its exact
+  // threshold (on: i = 0; off: v = Vf), so an inductor in series is left
+  // with no residual current to drive through Roff. The second, offset by
+  // the hysteresis ε, is a backstop for a valve that starts its state
+  // marginally on the wrong side of the first (within the settling
+  // tolerance), where the first would see no sign change.
   static int RootFn(realtype, N_Vector yv, N_Vector, realtype* g, void* data) {
     auto* run = static_cast<Run*>(data);
     const double* y = N_VGetArrayPointer(yv);
     for (std::size_t k = 0; k < run->valves_.size(); ++k) {
       const Valve& v = *run->valves_[k].valve;
-      g[k] = run->states_[v.switch_slot()] ? v.Current(y) + run->eps_i_
-                                           : v.Voltage(y) - v.params().v_f - run->eps_v_;
+      if (run->states_[v.switch_slot()]) {
+        const double i = v.Current(y);
+        g[2 * k] = i;
+        g[2 * k + 1] = i + run->eps_i_;
+      } else {
+        const double u = v.Voltage(y) - v.params().v_f;
+        g[2 * k] = u;
+        g[2 * k + 1] = u - run->eps_v_;
+      }
     }
     return 0;
   }
@@ -490,6 +510,8 @@ class Run {
   std::vector<double> previous_state_, cycle_peak_;
   int agreeing_cycles_ = 0;
 
+  // LCCSIM_TRACE=1 in the environment prints every valve switching.
+  const bool trace_ = std::getenv("LCCSIM_TRACE") != nullptr;
   double last_event_time_ = -1.0;
   double chatter_start_ = 0.0;
   int rapid_events_ = 0;

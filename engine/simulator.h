@@ -43,8 +43,9 @@ struct EngineOptions {
     // the larger of the largest current source and that voltage over the
     // smallest resistance.
     double abstol_fraction = 1e-3;
-    // Valve hysteresis ε = hysteresis × the absolute tolerance of the valve's
-    // current (turn-off) or voltage (turn-on).
+    // Settling tolerance and backstop offset of the valve root functions:
+    // ε = hysteresis × the absolute tolerance of the valve's current
+    // (turn-off) or voltage (turn-on).
     double hysteresis = 10.0;
   } tolerances;
 

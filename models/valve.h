@@ -9,9 +9,10 @@
 // what the turn-off root function watches.
 //
 // A diode (natural = true) switches by itself:
-//   on  → off when i falls through −ε_i (root of i + ε_i, falling);
-//   off → on  when v_a − v_k rises through Vf + ε_v (root, rising).
-// The small hysteresis ε keeps numerical noise from firing false events.
+//   on  → off when i falls through 0;
+//   off → on  when v_a − v_k rises through Vf.
+// The engine locates both as roots, with a backstop root offset by a small
+// hysteresis ε (see engine/simulator.h).
 // A switch (natural = false) changes state only when commanded.
 #pragma once
 
