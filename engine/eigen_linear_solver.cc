@@ -2,8 +2,10 @@
 
 #include <sunmatrix/sunmatrix_sparse.h>
 
-#include <Eigen/SparseLU>
 #include <algorithm>
+#include <memory>
+
+#include "engine/lu_solver.h"
 
 namespace lcc {
 namespace {
@@ -11,9 +13,8 @@ namespace {
 using Matrix = Eigen::SparseMatrix<double, Eigen::ColMajor, int>;
 
 struct Content {
-  Matrix matrix;
-  Eigen::SparseLU<Matrix, Eigen::COLAMDOrdering<int>> lu;
-  bool analyzed = false;
+  std::unique_ptr<LuSolver> lu;
+  long nonzeros = 0;
   EigenSolverStats* stats = nullptr;
 };
 
@@ -26,15 +27,10 @@ int Initialize(SUNLinearSolver) { return SUNLS_SUCCESS; }
 int Setup(SUNLinearSolver s, SUNMatrix a) {
   Content* c = Get(s);
   // The Jacobian function wrote exactly our pattern, so values line up.
-  std::copy(SM_DATA_S(a), SM_DATA_S(a) + c->matrix.nonZeros(), c->matrix.valuePtr());
-  if (!c->analyzed) {
-    c->lu.analyzePattern(c->matrix);
-    c->analyzed = true;
-    ++c->stats->analyses;
-  }
-  c->lu.factorize(c->matrix);
+  const bool ok = c->lu->Factorize(SM_DATA_S(a));
   ++c->stats->setups;
-  if (c->lu.info() != Eigen::Success) {
+  c->stats->analyses = c->lu->analyses();
+  if (!ok) {
     ++c->stats->singular;
     return SUNLS_LUFACT_FAIL;  // positive: IDA may recover with a smaller step
   }
@@ -43,10 +39,7 @@ int Setup(SUNLinearSolver s, SUNMatrix a) {
 
 int Solve(SUNLinearSolver s, SUNMatrix, N_Vector x, N_Vector b, realtype) {
   Content* c = Get(s);
-  const auto n = c->matrix.rows();
-  Eigen::Map<const Eigen::VectorXd> rhs(N_VGetArrayPointer(b), n);
-  Eigen::Map<Eigen::VectorXd> sol(N_VGetArrayPointer(x), n);
-  sol = c->lu.solve(rhs);
+  c->lu->Solve(N_VGetArrayPointer(b), N_VGetArrayPointer(x));
   ++c->stats->solves;
   return SUNLS_SUCCESS;
 }
@@ -61,11 +54,13 @@ int Free(SUNLinearSolver s) {
 
 }  // namespace
 
-SUNLinearSolver MakeEigenSparseLu(SUNContext ctx, const Matrix& pattern, EigenSolverStats* stats) {
+SUNLinearSolver MakeEigenLu(SUNContext ctx, const Matrix& pattern, const LuOptions& options,
+                            EigenSolverStats* stats) {
   SUNLinearSolver s = SUNLinSolNewEmpty(ctx);
   if (!s) return nullptr;
   auto* content = new Content;
-  content->matrix = pattern;
+  content->lu = std::make_unique<LuSolver>(pattern, options);
+  stats->dense = content->lu->dense();
   content->stats = stats;
   s->content = content;
   s->ops->gettype = GetType;

@@ -1,17 +1,19 @@
-// A SUNDIALS linear solver backed by Eigen's sparse LU.
+// A SUNDIALS linear solver backed by Eigen (engine/lu_solver.h).
 //
 // IDA assembles J = ∂F/∂y + cj·∂F/∂y' into a compressed-sparse-column
-// SUNMatrix through the Jacobian function; this solver copies its values
-// into an Eigen matrix of the same, fixed, pattern and factorises it. The
-// symbolic analysis (column ordering) runs on the first setup only; every
-// later setup is a numeric factorisation. A zero pivot is reported to IDA as
-// a recoverable failure, so IDA retries with a smaller step.
+// SUNMatrix through the Jacobian function; this solver factorises its
+// values, densely for small systems and with Eigen's sparse LU otherwise,
+// whose symbolic analysis runs on the first setup only. A zero pivot is
+// reported to IDA as a recoverable failure, so IDA retries with a smaller
+// step.
 #pragma once
 
 #include <sundials/sundials_context.h>
 #include <sundials/sundials_linearsolver.h>
 
 #include <Eigen/SparseCore>
+
+#include "engine/lu_solver.h"
 
 namespace lcc {
 
@@ -20,12 +22,12 @@ struct EigenSolverStats {
   long analyses = 0;          // symbolic analyses (1 for a run)
   long solves = 0;
   long singular = 0;          // factorisations that met a zero pivot
+  bool dense = false;         // factorised densely (small system)
 };
 
 // Creates the solver for matrices with the pattern of `pattern`. The caller
 // owns the result (free it with SUNLinSolFree). `stats` must outlive it.
-SUNLinearSolver MakeEigenSparseLu(SUNContext ctx,
-                                  const Eigen::SparseMatrix<double, Eigen::ColMajor, int>& pattern,
-                                  EigenSolverStats* stats);
+SUNLinearSolver MakeEigenLu(SUNContext ctx, const Eigen::SparseMatrix<double, Eigen::ColMajor, int>& pattern,
+                            const LuOptions& options, EigenSolverStats* stats);
 
 }  // namespace lcc

@@ -49,7 +49,7 @@ int SlotOf(const MnaSystem::SparseMatrix& m, int row, int col) {
 
 }  // namespace
 
-MnaSystem::MnaSystem(const Circuit& circuit) : circuit_(circuit), n_(circuit.num_unknowns()) {
+MnaSystem::MnaSystem(const Circuit& circuit, const LuOptions& lu) : circuit_(circuit), n_(circuit.num_unknowns()) {
   PatternSink pattern_sink;
   for (const auto& d : circuit.devices()) d->Stamp(pattern_sink, false);
   auto drop_ground = [](std::vector<Eigen::Triplet<double, int>>& t) {
@@ -82,16 +82,14 @@ MnaSystem::MnaSystem(const Circuit& circuit) : circuit_(circuit), n_(circuit.num
       if (c_values_[p] != 0.0) differential_[col] = 1;
     if (differential_[col]) differential_indices_.push_back(col);
   }
-  for (const auto& d : circuit.devices()) {
-    // Only devices that add to b(t): sources, and valves (their Vf).
-    const TopologyRole r = d->role();
-    if (r == TopologyRole::kVoltageSource || r == TopologyRole::kCurrentSource || d->has_switch_state())
-      source_devices_.push_back(d.get());
-  }
+  for (const auto& d : circuit.devices())
+    if (d->has_sources()) source_devices_.push_back(d.get());
   b_.assign(n_, 0.0);
   states_.assign(circuit.num_switch_slots(), 0);
   SetSwitchStates(states_);
-  consistency_ = pattern_;
+  consistency_values_.assign(pattern_.nonZeros(), 0.0);
+  consistency_lu_ = std::make_unique<LuSolver>(pattern_, lu);
+  step_lu_ = std::make_unique<LuSolver>(pattern_, lu);
 }
 
 void MnaSystem::SetSwitchStates(const std::vector<std::uint8_t>& states) {
@@ -131,7 +129,7 @@ void MnaSystem::JacobianValues(double cj, double* values) const {
 bool MnaSystem::SolveConsistent(double t, double* y, double* yp, std::string* error) {
   const int* outer = pattern_.outerIndexPtr();
   const int* inner = pattern_.innerIndexPtr();
-  double* m = consistency_.valuePtr();
+  double* m = consistency_values_.data();
   Eigen::VectorXd rhs(n_);
   Sources(t, rhs.data());
   for (int col = 0; col < n_; ++col) {
@@ -144,17 +142,12 @@ bool MnaSystem::SolveConsistent(double t, double* y, double* yp, std::string* er
       }
     }
   }
-  if (!consistency_analyzed_) {
-    consistency_lu_.analyzePattern(consistency_);
-    consistency_analyzed_ = true;
-  }
-  consistency_lu_.factorize(consistency_);
-  if (consistency_lu_.info() != Eigen::Success) {
-    *error = fmt::format("the circuit equations are singular at t = {:.9g} s ({})", t,
-                         consistency_lu_.lastErrorMessage());
+  if (!consistency_lu_->Factorize(m)) {
+    *error = fmt::format("the circuit equations are singular at t = {:.9g} s in the present valve states", t);
     return false;
   }
-  Eigen::VectorXd z = consistency_lu_.solve(rhs);
+  Eigen::VectorXd z(n_);
+  consistency_lu_->Solve(rhs.data(), z.data());
   for (int k = 0; k < n_; ++k) {
     if (!std::isfinite(z[k])) {
       *error = fmt::format("the circuit equations are singular at t = {:.9g} s (unknown {})", t,
@@ -168,6 +161,30 @@ bool MnaSystem::SolveConsistent(double t, double* y, double* yp, std::string* er
       yp[k] = 0.0;
     }
   }
+  return true;
+}
+
+}  // namespace lcc
+
+namespace lcc {
+
+bool MnaSystem::BackwardEulerStep(double t, double h, double* y, std::string* error) {
+  const int* outer = pattern_.outerIndexPtr();
+  const int* inner = pattern_.innerIndexPtr();
+  std::vector<double>& m = consistency_values_;  // scratch of the pattern's size
+  Eigen::VectorXd rhs(n_);
+  Sources(t + h, rhs.data());
+  for (int col = 0; col < n_; ++col) {
+    for (int p = outer[col]; p < outer[col + 1]; ++p) {
+      m[p] = g_values_[p] + c_values_[p] / h;
+      rhs[inner[p]] += c_values_[p] / h * y[col];
+    }
+  }
+  if (!step_lu_->Factorize(m.data())) {
+    *error = fmt::format("the circuit equations are singular at t = {:.9g} s in the present valve states", t);
+    return false;
+  }
+  step_lu_->Solve(rhs.data(), y);
   return true;
 }
 

@@ -17,11 +17,12 @@
 #pragma once
 
 #include <Eigen/SparseCore>
-#include <Eigen/SparseLU>
 #include <cstdint>
+#include <memory>
 #include <string>
 #include <vector>
 
+#include "engine/lu_solver.h"
 #include "models/circuit.h"
 
 namespace lcc {
@@ -30,7 +31,7 @@ class MnaSystem {
  public:
   using SparseMatrix = Eigen::SparseMatrix<double, Eigen::ColMajor, int>;
 
-  explicit MnaSystem(const Circuit& circuit);
+  explicit MnaSystem(const Circuit& circuit, const LuOptions& lu = {});
 
   int size() const { return n_; }
   const std::vector<char>& differential() const { return differential_; }
@@ -52,6 +53,14 @@ class MnaSystem {
   // system is singular in the present switch states.
   bool SolveConsistent(double t, double* y, double* yp, std::string* error);
 
+  // One backward-Euler step of size h from (t, y): y ← y(t + h), solving
+  //     (G + C/h)·y₁ = b(t + h) + (C/h)·y₀.
+  // Used right after a switching event to let modes far faster than any
+  // step IDA would take (an inductor's current through a valve's Roff,
+  // τ = L/Roff ~ 0.1 ns) settle before IDA restarts: BE is L-stable, so
+  // they decay in one step, while the physical states move by h·y' only.
+  bool BackwardEulerStep(double t, double h, double* y, std::string* error);
+
  private:
   void Sources(double t, double* b) const;
 
@@ -67,9 +76,9 @@ class MnaSystem {
   std::vector<const Device*> source_devices_;
   mutable std::vector<double> b_;
 
-  SparseMatrix consistency_;
-  Eigen::SparseLU<SparseMatrix, Eigen::COLAMDOrdering<int>> consistency_lu_;
-  bool consistency_analyzed_ = false;
+  std::vector<double> consistency_values_;
+  std::unique_ptr<LuSolver> consistency_lu_;
+  std::unique_ptr<LuSolver> step_lu_;
 };
 
 }  // namespace lcc

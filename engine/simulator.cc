@@ -17,6 +17,7 @@
 #include <stdexcept>
 
 #include "engine/eigen_linear_solver.h"
+#include "engine/fast_vector_ops.h"
 #include "engine/mna.h"
 #include "models/valve.h"
 
@@ -61,7 +62,7 @@ void Check(int flag, const char* call) {
 class Run {
  public:
   Run(const Circuit& circuit, const Study& study, const EngineOptions& options, SampleSink& sink)
-      : circuit_(circuit), study_(study), options_(options), sink_(sink), mna_(circuit),
+      : circuit_(circuit), study_(study), options_(options), sink_(sink), mna_(circuit, options.lu),
         n_(mna_.size()) {}
 
   RunResult Execute() {
@@ -97,7 +98,9 @@ class Run {
     period_ = f > 0 ? 1.0 / f : 0.0;
     s.period = period_;
     s.sample_used = sim.sample > 0 ? sim.sample : period_ > 0 ? period_ / 1024.0 : sim.stop / 10000.0;
-    s.max_step_used = sim.max_step > 0 ? sim.max_step : period_ > 0 ? period_ / 360.0 : sim.stop / 1000.0;
+    s.max_step_used = sim.max_step > 0                ? sim.max_step
+                      : period_ > 0                   ? period_ * options_.default_max_step_degrees / 360.0
+                                                      : sim.stop / 1000.0;
     s.steady_requested = study_.steady.has_value();
     t_end_ = sim.stop;
     if (study_.steady && study_.steady->settle_max > 0 && period_ > 0)
@@ -115,8 +118,9 @@ class Run {
     i_ref = std::max(i_ref, v_ref / (r_min > 0 ? r_min : 1.0));
     v_ref_ = v_ref;
     i_ref_ = i_ref;
-    const double atol_v = sim.reltol * options_.tolerances.abstol_fraction * v_ref;
-    const double atol_i = sim.reltol * options_.tolerances.abstol_fraction * i_ref;
+    const double fraction = options_.tolerances.abstol_fraction;
+    const double atol_v = sim.reltol * fraction * v_ref;
+    const double atol_i = sim.reltol * fraction * i_ref;
     eps_v_ = options_.tolerances.hysteresis * atol_v;
     eps_i_ = options_.tolerances.hysteresis * atol_i;
 
@@ -128,11 +132,14 @@ class Run {
     ctx_.reset(new SUNContext(nullptr));
     Check(SUNContext_Create(nullptr, ctx_.get()), "SUNContext_Create");
     y_.reset(N_VNew_Serial(n_, *ctx_));
-    yp_.reset(N_VNew_Serial(n_, *ctx_));
-    work_.reset(N_VNew_Serial(n_, *ctx_));
-    work_p_.reset(N_VNew_Serial(n_, *ctx_));
-    Vector atol(N_VNew_Serial(n_, *ctx_));
-    Vector id(N_VNew_Serial(n_, *ctx_));
+    // Optimised vector kernels (engine/fast_vector_ops.h); every vector
+    // below and every one IDA clones inherits them from y_.
+    UseFastVectorOps(y_.get());
+    yp_.reset(N_VClone(y_.get()));
+    work_.reset(N_VClone(y_.get()));
+    work_p_.reset(N_VClone(y_.get()));
+    Vector atol(N_VClone(y_.get()));
+    Vector id(N_VClone(y_.get()));
     double* a = N_VGetArrayPointer(atol.get());
     double* idv = N_VGetArrayPointer(id.get());
     for (int k = 0; k < n_; ++k) {
@@ -167,7 +174,7 @@ class Run {
 
     const auto& pattern = mna_.pattern();
     jacobian_.reset(SUNSparseMatrix(n_, n_, pattern.nonZeros(), CSC_MAT, *ctx_));
-    solver_.reset(MakeEigenSparseLu(*ctx_, pattern, &solver_stats_));
+    solver_.reset(MakeEigenLu(*ctx_, pattern, options_.lu, &solver_stats_));
     Check(IDASetLinearSolver(mem, solver_.get(), jacobian_.get()), "IDASetLinearSolver");
     Check(IDASetJacFn(mem, &Run::JacobianFn), "IDASetJacFn");
     if (!valves_.empty()) {
@@ -255,8 +262,36 @@ class Run {
 
     Accumulate();
     if (!Settle(t, flagged)) return false;
+    // Relax the parasitic fast modes (see MnaSystem::BackwardEulerStep) with
+    // one tiny implicit step, then restart IDA from there.
+    const double h_relax = options_.events.relax_step_fraction * result_.summary.max_step_used;
+    if (h_relax > 0 && t + h_relax < t_end_) {
+      double* y = N_VGetArrayPointer(y_.get());
+      double* yp = N_VGetArrayPointer(yp_.get());
+      std::string error;
+      if (!mna_.BackwardEulerStep(t, h_relax, y, &error)) {
+        Fail(error + ValveStateText());
+        return false;
+      }
+      t += h_relax;
+      // The step moves the states a little: a valve that was marginal at the
+      // event (a commutation ending on the leakage of the others' Roff) may
+      // now be on the wrong side of its rule, where its roots would never
+      // see a sign change. Settle again.
+      if (!Settle(t, {})) return false;
+      // Samples inside the relaxation step take its end state (the step is
+      // far shorter than the sample interval).
+      EmitStateSamples(t, y, yp);
+    }
     void* mem = ida_.get();
+    // IDA would otherwise restart from a step sized by ‖y'‖ (often 1 ns
+    // after a commutation) and spend tens of steps growing it back.
+    double h_last = 0.0;
+    IDAGetLastStep(mem, &h_last);
+    const double h0 = std::min(result_.summary.max_step_used, h_last) * options_.events.restart_step_fraction;
     Check(IDAReInit(mem, t, y_.get(), yp_.get()), "IDAReInit");
+    t_restart_ = t;
+    if (h0 > 0) Check(IDASetInitStep(mem, h0), "IDASetInitStep");
     Check(IDASetStopTime(mem, t_end_), "IDASetStopTime");
     SetRootDirections();
     return true;
@@ -266,7 +301,14 @@ class Run {
   bool Settle(double t, const std::vector<int>& flagged) {
     double* y = N_VGetArrayPointer(y_.get());
     double* yp = N_VGetArrayPointer(yp_.get());
-    for (int k : flagged) Flip(t, k);
+    // A valve whose current has just crossed zero sits at zero voltage; any
+    // forward voltage the solve then shows is rounding (or Roff leakage of
+    // the others), not a reason to fire it again at the same instant.
+    std::vector<char> just_off(valves_.size(), 0);
+    for (int k : flagged) {
+      Flip(t, k);
+      just_off[k] = !states_[valves_[k].valve->switch_slot()];
+    }
     std::set<std::vector<std::uint8_t>> seen;
     std::vector<int> flipped;
     for (int iteration = 0;; ++iteration) {
@@ -281,6 +323,7 @@ class Run {
       for (std::size_t k = 0; k < valves_.size(); ++k) {
         const Valve& v = *valves_[k].valve;
         const bool on = states_[v.switch_slot()];
+        if (!on && just_off[k]) continue;
         const double violation = on ? (-eps_i_ - v.Current(y)) / i_ref_
                                     : (v.Voltage(y) - v.params().v_f - eps_v_) / v_ref_;
         if (violation > worst_violation) {
@@ -341,8 +384,22 @@ class Run {
       if (ts > t + slack || ts > t_end_ + slack) break;
       const double tq = std::min(ts, t);
       Check(IDAGetDky(mem, tq, 0, work_.get()), "IDAGetDky");
-      Check(IDAGetDky(mem, tq, 1, work_p_.get()), "IDAGetDky");
-      sink_.OnSample(ts, N_VGetArrayPointer(work_.get()), N_VGetArrayPointer(work_p_.get()));
+      const double* yp = nullptr;
+      if (wants_derivatives_) {
+        Check(IDAGetDky(mem, tq, 1, work_p_.get()), "IDAGetDky");
+        yp = N_VGetArrayPointer(work_p_.get());
+      }
+      sink_.OnSample(ts, N_VGetArrayPointer(work_.get()), yp);
+      ++next_sample_;
+      ++result_.summary.samples;
+    }
+  }
+
+  // Samples up to t from a state rather than from IDA's interpolant.
+  void EmitStateSamples(double t, const double* y, const double* yp) {
+    const double dt = result_.summary.sample_used;
+    while (next_sample_ * dt <= t) {
+      sink_.OnSample(next_sample_ * dt, y, wants_derivatives_ ? yp : nullptr);
       ++next_sample_;
       ++result_.summary.samples;
     }
@@ -361,7 +418,9 @@ class Run {
     for (std::size_t i = 0; i < diff.size(); ++i)
       cycle_peak_[i] = std::max(cycle_peak_[i], std::abs(y[diff[i]]));
     while (next_boundary_ <= t && !result_.summary.steady_reached) {
-      Check(IDAGetDky(ida_.get(), next_boundary_, 0, work_.get()), "IDAGetDky");
+      // A boundary inside the relaxation step after an event is read at the
+      // restart instant, IDA's interpolant not reaching back before it.
+      Check(IDAGetDky(ida_.get(), std::max(next_boundary_, t_restart_), 0, work_.get()), "IDAGetDky");
       std::vector<double> x = DifferentialState(N_VGetArrayPointer(work_.get()));
       double sum = 0.0;
       for (std::size_t i = 0; i < x.size(); ++i) {
@@ -505,11 +564,13 @@ class Run {
 
   double period_ = 0.0;
   double t_end_ = 0.0;
+  double t_restart_ = 0.0;  // where IDA was last (re)initialised
   long next_sample_ = 0;
   double next_boundary_ = 0.0;
   std::vector<double> previous_state_, cycle_peak_;
   int agreeing_cycles_ = 0;
 
+  const bool wants_derivatives_ = sink_.wants_derivatives();
   // LCCSIM_TRACE=1 in the environment prints every valve switching.
   const bool trace_ = std::getenv("LCCSIM_TRACE") != nullptr;
   double last_event_time_ = -1.0;
@@ -527,6 +588,8 @@ bool EngineOptions::IsValid(std::string* error) const {
   };
   if (!(tolerances.abstol_fraction > 0 && tolerances.abstol_fraction <= 1))
     return bad("tolerances.abstol_fraction", tolerances.abstol_fraction, "must be in (0, 1]");
+  if (!(default_max_step_degrees > 0 && default_max_step_degrees <= 30))
+    return bad("default_max_step_degrees", default_max_step_degrees, "must be in (0, 30]");
   if (!(tolerances.hysteresis >= 1))
     return bad("tolerances.hysteresis", tolerances.hysteresis, "must be at least 1");
   if (events.max_settle_iterations < 1)

@@ -94,6 +94,9 @@ class Device {
   int switch_slot() const { return switch_slot_; }
 
   virtual void Stamp(StampSink& sink, bool on) const = 0;
+  // Devices that add to b(t) say so, so that only they are visited for
+  // every residual.
+  virtual bool has_sources() const { return false; }
   virtual void AddSources(double /*t*/, bool /*on*/, double* /*b*/) const {}
 
   // The probe-able quantity `what` ("i" or "v"): its linear form and unit.

@@ -26,6 +26,7 @@ class VoltageSource final : public Device {
   int num_branches() const override { return 1; }
   const Waveform& waveform() const { return e_; }
   void Stamp(StampSink& sink, bool on) const override;
+  bool has_sources() const override { return true; }
   void AddSources(double t, bool on, double* b) const override;
   bool Signal(std::string_view what, LinearForm* form, Dim* dim) const override;
   double voltage_scale() const override { return e_.Peak(); }
@@ -42,6 +43,7 @@ class CurrentSource final : public Device {
   TopologyRole role() const override { return TopologyRole::kCurrentSource; }
   const Waveform& waveform() const { return i_; }
   void Stamp(StampSink&, bool) const override {}
+  bool has_sources() const override { return true; }
   void AddSources(double t, bool on, double* b) const override;
   bool Signal(std::string_view what, LinearForm* form, Dim* dim) const override;
   double current_scale() const override { return i_.Peak(); }

@@ -22,7 +22,7 @@ namespace lcc {
 
 struct ValveParams {
   double r_on = 1e-3;   // ohm
-  double r_off = 1e6;   // ohm
+  double r_off = 1e9;   // ohm
   double v_f = 0.0;     // V, forward drop while on
 };
 
@@ -44,6 +44,7 @@ class Valve final : public Device {
   const ValveParams& params() const { return p_; }
 
   void Stamp(StampSink& sink, bool on) const override;
+  bool has_sources() const override { return true; }
   void AddSources(double t, bool on, double* b) const override;
   bool Signal(std::string_view what, LinearForm* form, Dim* dim) const override;
   double resistance_scale() const override { return 0.0; }

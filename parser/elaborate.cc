@@ -13,6 +13,7 @@
 #include "models/capacitor.h"
 #include "models/inductor.h"
 #include "models/resistor.h"
+#include "models/source_branch.h"
 #include "models/sources.h"
 #include "models/valve.h"
 #include "parser/expression.h"
@@ -340,12 +341,12 @@ class Elaborator {
       else
         c.Add(std::make_unique<CurrentSource>(name, loc, node(ports[0]), node(ports[1]), *w));
     } else if (kind.name == "switch") {
-      ValveParams p{set.number("Ron", 1e-3), set.number("Roff", 1e6), 0.0};
+      ValveParams p{set.number("Ron", 1e-3), set.number("Roff", 1e9), 0.0};
       if (!CheckValveParams(p, set, file)) return;
       c.Add(std::make_unique<Valve>(name, loc, node(ports[0]), node(ports[1]), Valve::Type::kSwitch,
                                     p, set.words["state"] != "open"));
     } else if (kind.name == "diode") {
-      ValveParams p{set.number("Ron", 1e-3), set.number("Roff", 1e6), set.number("Vf")};
+      ValveParams p{set.number("Ron", 1e-3), set.number("Roff", 1e9), set.number("Vf")};
       if (!CheckValveParams(p, set, file)) return;
       c.Add(std::make_unique<Valve>(name, loc, node(ports[0]), node(ports[1]), Valve::Type::kDiode, p));
     } else if (kind.name == "supply") {
@@ -389,8 +390,8 @@ class Elaborator {
     return true;
   }
 
-  // A supply is, per phase, an EMF from the star point to an inner node and
-  // the source impedance from there to the terminal:
+  // A supply is, per phase, a source branch (models/source_branch.h): the
+  // EMF behind the source impedance, from the star point to the terminal:
   //   e_k(t) = √2/√3·Vll·[sin(θ_k) + u·sin(θ'_k) + Σ_n h_n·sin(n·θ_k)],
   //   θ_k = 2πf·t + phase − k·120°,  θ'_k = 2πf·t + phase + k·120°,
   // where u is the negative-sequence unbalance. With Ssc and xr the
@@ -443,21 +444,9 @@ class Elaborator {
         if (h > 0) e.sines.push_back({h * vph, n * f, n * (phase + shift)});
       const std::string ph = phases[k];
       const int terminal = design_.circuit.Node(ports[k].name, SourceLoc{file, ports[k].offset});
-      Circuit& c = design_.circuit;
-      if (r == 0.0 && l == 0.0) {
-        auto& src = c.Add(std::make_unique<VoltageSource>(name + ".e" + ph, loc, terminal, star, e));
-        c.AddAlias(name + "." + ph, {&src, 1.0});
-        continue;
-      }
-      const int inner = c.Node(name + "." + ph + "_emf", loc);
-      c.Add(std::make_unique<VoltageSource>(name + ".e" + ph, loc, inner, star, e));
-      if (l > 0.0) {
-        auto& z = c.Add(std::make_unique<Inductor>(name + ".z" + ph, loc, inner, terminal, l, r, 0.0));
-        c.AddAlias(name + "." + ph, {&z, 1.0});
-      } else {
-        auto& z = c.Add(std::make_unique<Resistor>(name + ".z" + ph, loc, inner, terminal, r));
-        c.AddAlias(name + "." + ph, {&z, 1.0});
-      }
+      auto& branch = design_.circuit.Add(
+          std::make_unique<SourceBranch>(name + "." + ph, loc, star, terminal, e, r, l));
+      design_.circuit.AddAlias(name + "." + ph, {&branch, 1.0});
     }
   }
 
@@ -469,7 +458,7 @@ class Elaborator {
       Error(file, s.name->offset, "give both snubber_R and snubber_C, or neither");
       return;
     }
-    ValveParams p{set.number("Ron", 1e-3), set.number("Roff", 1e6), set.number("Vf")};
+    ValveParams p{set.number("Ron", 1e-3), set.number("Roff", 1e9), set.number("Vf")};
     if (!CheckValveParams(p, set, file)) return;
     Circuit& c = design_.circuit;
     auto node = [&](const ast::Ident& id) { return c.Node(id.name, SourceLoc{file, id.offset}); };

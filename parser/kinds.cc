@@ -57,7 +57,7 @@ std::vector<KeySpec> SourceKeys(Dim dim) {
 std::vector<KeySpec> ValveKeys() {
   return {
       Num("Ron", dims::kResistance, 1e-3, kPos, "on-state resistance"),
-      Num("Roff", dims::kResistance, 1e6, kPos, "off-state resistance"),
+      Num("Roff", dims::kResistance, 1e9, kPos, "off-state resistance"),
       Num("Vf", dims::kVoltage, 0.0, kNonNeg, "forward voltage drop while conducting"),
   };
 }
@@ -130,7 +130,7 @@ const std::vector<KindSpec>& StudyStatements() {
                  {Num("stop", dims::kTime, std::nullopt, kPos, "end of the run", true),
                   Num("sample", dims::kTime, std::nullopt, kPos, "output interval (default: period/1024, or stop/10000 without a periodic source)"),
                   Num("reltol", dims::kNone, 1e-6, Constraint::kFraction, "relative tolerance of the integrator"),
-                  Num("max_step", dims::kTime, std::nullopt, kPos, "largest integration step (default: one electrical degree, or stop/1000)")},
+                  Num("max_step", dims::kTime, std::nullopt, kPos, "largest integration step (default: two electrical degrees, or stop/1000)")},
                  "the run"});
     s.push_back({"steady", {},
                  {Num("cycles", dims::kNone, 2.0, Constraint::kPositiveInteger, "whole cycles recorded once steady"),

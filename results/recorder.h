@@ -10,7 +10,11 @@ namespace lcc {
 
 class ProbeRecorder final : public SampleSink {
  public:
-  explicit ProbeRecorder(const std::vector<Probe>& probes) : probes_(probes), columns_(probes.size()) {}
+  explicit ProbeRecorder(const std::vector<Probe>& probes) : probes_(probes), columns_(probes.size()) {
+    for (const auto& p : probes)
+      for (const auto& slot : p.slots) derivatives_ |= !slot.yp.empty();
+  }
+  bool wants_derivatives() const override { return derivatives_; }
 
   void OnSample(double t, const double* y, const double* yp) override {
     time_.push_back(t);
@@ -25,6 +29,7 @@ class ProbeRecorder final : public SampleSink {
   const std::vector<Probe>& probes_;
   std::vector<double> time_;
   std::vector<std::vector<double>> columns_;
+  bool derivatives_ = false;  // some probe needs y' (a capacitor current)
 };
 
 }  // namespace lcc

@@ -2,7 +2,7 @@
 #include <catch2/catch.hpp>
 #include <cmath>
 
-#include "models/inductor.h"
+#include "models/source_branch.h"
 #include "models/valve.h"
 #include "parser/elaborate.h"
 
@@ -38,11 +38,14 @@ TEST_CASE("SupplyImpedanceFollowsFromShortCircuitPower", "[elaborate]") {
                                   "resistor R1 (a, gnd) R = 1 ohm\nresistor R2 (b, gnd) R = 1 ohm\n"
                                   "resistor R3 (c, gnd) R = 1 ohm\n", diags);
   REQUIRE(d);
-  const auto* z = dynamic_cast<const Inductor*>(d->circuit.FindDevice("G.za"));
+  const auto* z = dynamic_cast<const SourceBranch*>(d->circuit.FindDevice("G.a"));
   REQUIRE(z);
   const double zmag = 11e3 * 11e3 / 100e6;
   const double r = zmag / std::sqrt(101.0);
+  REQUIRE(z->resistance() == Approx(r).epsilon(1e-12));
   REQUIRE(z->inductance() == Approx(10 * r / (2 * M_PI * 50)).epsilon(1e-12));
+  // Phase a's EMF peak is √(2/3)·Vll.
+  REQUIRE(z->waveform().sines.at(0).amplitude == Approx(std::sqrt(2.0 / 3.0) * 11e3).epsilon(1e-12));
 }
 
 TEST_CASE("AllErrorsOfAFileAreReportedNotOnlyTheFirst", "[elaborate]") {

@@ -1,0 +1,85 @@
+#include "engine/lu_solver.h"
+
+#include <cmath>
+
+namespace lcc {
+
+LuSolver::LuSolver(const SparseMatrix& pattern, const LuOptions& options)
+    : dense_(pattern.rows() <= options.dense_limit), sparse_(pattern) {
+  sparse_.makeCompressed();
+  if (dense_) {
+    dense_matrix_.setZero(pattern.rows(), pattern.cols());
+    pivot_.assign(pattern.rows(), 0);
+  }
+  work_.resize(pattern.rows());
+}
+
+bool LuSolver::Factorize(const double* values) {
+  const int n = static_cast<int>(sparse_.rows());
+  if (dense_) {
+    Eigen::MatrixXd& a = dense_matrix_;
+    a.setZero();
+    const int* outer = sparse_.outerIndexPtr();
+    const int* inner = sparse_.innerIndexPtr();
+    for (int col = 0; col < n; ++col)
+      for (int p = outer[col]; p < outer[col + 1]; ++p) a(inner[p], col) = values[p];
+    // Right-looking elimination with partial pivoting. Plain loops: at
+    // this size Eigen's block expressions cost more than the arithmetic.
+    for (int k = 0; k < n; ++k) {
+      int p = k;
+      for (int i = k + 1; i < n; ++i)
+        if (std::abs(a(i, k)) > std::abs(a(p, k))) p = i;
+      pivot_[k] = p;
+      if (p != k) a.row(k).swap(a.row(p));
+      // Valve resistances span 15 decades, so a tiny pivot relative to the
+      // largest is normal; only an exact zero (a structural singularity the
+      // topology checks missed) or a non-finite value is a failure.
+      const double pivot = a(k, k);
+      if (!std::isfinite(pivot) || std::abs(pivot) <= 1e-300) return false;
+      const double inv = 1.0 / pivot;
+      for (int i = k + 1; i < n; ++i) a(i, k) *= inv;
+      for (int j = k + 1; j < n; ++j) {
+        const double ukj = a(k, j);
+        if (ukj == 0.0) continue;  // MNA matrices are mostly zeros
+        for (int i = k + 1; i < n; ++i) a(i, j) -= a(i, k) * ukj;
+      }
+    }
+    return true;
+  }
+  std::copy(values, values + sparse_.nonZeros(), sparse_.valuePtr());
+  if (!analyzed_) {
+    sparse_lu_.analyzePattern(sparse_);
+    analyzed_ = true;
+    ++analyses_;
+  }
+  sparse_lu_.factorize(sparse_);
+  return sparse_lu_.info() == Eigen::Success;
+}
+
+void LuSolver::Solve(const double* b, double* x) {
+  const int n = static_cast<int>(sparse_.rows());
+  if (dense_) {
+    // In place on x, with raw pointers: no temporaries on this hot path.
+    if (x != b) std::copy(b, b + n, x);
+    const double* a = dense_matrix_.data();  // column-major, leading dimension n
+    for (int k = 0; k < n; ++k) std::swap(x[k], x[pivot_[k]]);
+    for (int j = 0; j < n; ++j) {  // L·z = P·b, unit lower triangle
+      const double xj = x[j];
+      if (xj == 0.0) continue;
+      const double* col = a + static_cast<std::size_t>(j) * n;
+      for (int i = j + 1; i < n; ++i) x[i] -= col[i] * xj;
+    }
+    for (int j = n - 1; j >= 0; --j) {  // U·x = z
+      const double* col = a + static_cast<std::size_t>(j) * n;
+      x[j] /= col[j];
+      const double xj = x[j];
+      if (xj == 0.0) continue;
+      for (int i = 0; i < j; ++i) x[i] -= col[i] * xj;
+    }
+    return;
+  }
+  work_ = Eigen::Map<const Eigen::VectorXd>(b, n);
+  Eigen::Map<Eigen::VectorXd>(x, n) = sparse_lu_.solve(work_);
+}
+
+}  // namespace lcc

@@ -1,0 +1,6 @@
+#!/usr/bin/env bash
+# Builds lccsim (installing missing packages) and runs the whole test suite.
+set -euo pipefail
+cd "$(dirname "$0")/.."
+bash scripts/build.sh
+ctest --test-dir build --output-on-failure -j "$(nproc)"
