@@ -83,7 +83,12 @@ MnaSystem::MnaSystem(const Circuit& circuit, const LuOptions& lu) : circuit_(cir
     if (differential_[col]) differential_indices_.push_back(col);
   }
   for (const auto& d : circuit.devices())
-    if (d->has_sources()) source_devices_.push_back(d.get());
+    if (d->has_sources()) {
+      source_devices_.push_back(d.get());
+      d->SourceRows(&source_rows_);
+    }
+  std::sort(source_rows_.begin(), source_rows_.end());
+  source_rows_.erase(std::unique(source_rows_.begin(), source_rows_.end()), source_rows_.end());
   b_.assign(n_, 0.0);
   states_.assign(circuit.num_switch_slots(), 0);
   SetSwitchStates(states_);
@@ -142,6 +147,7 @@ bool MnaSystem::SolveConsistent(double t, double* y, double* yp, std::string* er
       }
     }
   }
+  response_valid_ = false;
   if (!consistency_lu_->Factorize(m)) {
     *error = fmt::format("the circuit equations are singular at t = {:.9g} s in the present valve states", t);
     return false;
@@ -186,6 +192,43 @@ bool MnaSystem::BackwardEulerStep(double t, double h, double* y, std::string* er
   }
   step_lu_->Solve(rhs.data(), y);
   return true;
+}
+
+}  // namespace lcc
+
+namespace lcc {
+
+void MnaSystem::RecomputeAlgebraic(double t, double* y) {
+  // y_alg = M⁻¹·(b(t) − G_d·y_d) = Σ_r b_r(t)·(M⁻¹e_r) − Σ_d y_d·(M⁻¹G[:,d]):
+  // a few short vector sums per sample instead of a solve.
+  const int* outer = pattern_.outerIndexPtr();
+  const int* inner = pattern_.innerIndexPtr();
+  const int nr = static_cast<int>(source_rows_.size());
+  const int nd = static_cast<int>(differential_indices_.size());
+  if (!response_valid_) {
+    response_.resize(n_, nr + nd);
+    for (int k = 0; k < nr + nd; ++k) {
+      rhs_.setZero(n_);
+      if (k < nr) {
+        rhs_[source_rows_[k]] = 1.0;
+      } else {
+        const int col = differential_indices_[k - nr];
+        for (int p = outer[col]; p < outer[col + 1]; ++p) rhs_[inner[p]] = g_values_[p];
+      }
+      consistency_lu_->Solve(rhs_.data(), response_.col(k).data());
+    }
+    response_valid_ = true;
+  }
+  b_.assign(n_, 0.0);
+  Sources(t, b_.data());
+  z_.setZero(n_);
+  for (int k = 0; k < nr; ++k) {
+    const double w = b_[source_rows_[k]];
+    if (w != 0.0) z_ += w * response_.col(k);
+  }
+  for (int k = 0; k < nd; ++k) z_ -= y[differential_indices_[k]] * response_.col(nr + k);
+  for (int k = 0; k < n_; ++k)
+    if (!differential_[k]) y[k] = z_[k];
 }
 
 }  // namespace lcc

@@ -53,6 +53,15 @@ class MnaSystem {
   // system is singular in the present switch states.
   bool SolveConsistent(double t, double* y, double* yp, std::string* error);
 
+  // Recomputes the algebraic entries of y at t from its differential
+  // entries, reusing the factorisation of the last SolveConsistent() (valid
+  // while the switch states are unchanged). Output samples use it: IDA's
+  // interpolant is accurate for the states it controls, but between steps
+  // the algebraic unknowns (node voltages, source and valve currents) would
+  // only be as good as the interpolating polynomial's order, which in a
+  // circuit with few states may be 1.
+  void RecomputeAlgebraic(double t, double* y);
+
   // One backward-Euler step of size h from (t, y): y ← y(t + h), solving
   //     (G + C/h)·y₁ = b(t + h) + (C/h)·y₀.
   // Used right after a switching event to let modes far faster than any
@@ -77,6 +86,13 @@ class MnaSystem {
   mutable std::vector<double> b_;
 
   std::vector<double> consistency_values_;
+  Eigen::VectorXd rhs_, z_;
+  // For RecomputeAlgebraic(): the rows b(t) can touch, and, for the present
+  // factorisation, the responses M⁻¹·e_r to each and M⁻¹·G[:,d] to each
+  // differential unknown d (one column each), rebuilt after each event.
+  std::vector<int> source_rows_;
+  Eigen::MatrixXd response_;
+  bool response_valid_ = false;
   std::unique_ptr<LuSolver> consistency_lu_;
   std::unique_ptr<LuSolver> step_lu_;
 };

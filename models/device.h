@@ -97,6 +97,8 @@ class Device {
   // Devices that add to b(t) say so, so that only they are visited for
   // every residual.
   virtual bool has_sources() const { return false; }
+  // The rows of b that AddSources() may write.
+  virtual void SourceRows(std::vector<int>* /*rows*/) const {}
   virtual void AddSources(double /*t*/, bool /*on*/, double* /*b*/) const {}
 
   // The probe-able quantity `what` ("i" or "v"): its linear form and unit.

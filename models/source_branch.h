@@ -32,6 +32,7 @@ class SourceBranch final : public Device {
   void Stamp(StampSink& sink, bool on) const override;
   bool has_sources() const override { return true; }
   void AddSources(double t, bool on, double* b) const override;
+  void SourceRows(std::vector<int>* rows) const override { rows->push_back(branch()); }
   bool Signal(std::string_view what, LinearForm* form, Dim* dim) const override;
   double voltage_scale() const override { return e_.Peak(); }
   double resistance_scale() const override { return r_; }

@@ -28,6 +28,7 @@ class VoltageSource final : public Device {
   void Stamp(StampSink& sink, bool on) const override;
   bool has_sources() const override { return true; }
   void AddSources(double t, bool on, double* b) const override;
+  void SourceRows(std::vector<int>* rows) const override { rows->push_back(branch()); }
   bool Signal(std::string_view what, LinearForm* form, Dim* dim) const override;
   double voltage_scale() const override { return e_.Peak(); }
 
@@ -45,6 +46,10 @@ class CurrentSource final : public Device {
   void Stamp(StampSink&, bool) const override {}
   bool has_sources() const override { return true; }
   void AddSources(double t, bool on, double* b) const override;
+  void SourceRows(std::vector<int>* rows) const override {
+    for (int node : nodes())
+      if (node > 0) rows->push_back(NodeUnknown(node));
+  }
   bool Signal(std::string_view what, LinearForm* form, Dim* dim) const override;
   double current_scale() const override { return i_.Peak(); }
 

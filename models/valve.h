@@ -46,6 +46,7 @@ class Valve final : public Device {
   void Stamp(StampSink& sink, bool on) const override;
   bool has_sources() const override { return true; }
   void AddSources(double t, bool on, double* b) const override;
+  void SourceRows(std::vector<int>* rows) const override { rows->push_back(branch()); }
   bool Signal(std::string_view what, LinearForm* form, Dim* dim) const override;
   double resistance_scale() const override { return 0.0; }
 
