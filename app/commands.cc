@@ -59,7 +59,7 @@ int RunCommand(const RunCommandOptions& options, std::ostream& out, std::ostream
                        options.netlist);
     return kExitInputError;
   }
-  EngineOptions engine;
+  const EngineOptions& engine = options.engine;
   std::string why;
   if (!engine.IsValid(&why)) {
     err << "lccsim: error: engine option " << why << "\n";

@@ -6,6 +6,8 @@
 #include <ostream>
 #include <string>
 
+#include "engine/simulator.h"
+
 namespace lcc {
 
 enum ExitCode { kExitOk = 0, kExitSimulationFailed = 1, kExitInputError = 2 };
@@ -13,6 +15,7 @@ enum ExitCode { kExitOk = 0, kExitSimulationFailed = 1, kExitInputError = 2 };
 struct RunCommandOptions {
   std::string netlist;
   std::string out_dir = "out";  // results go to OUT/CASE/
+  EngineOptions engine;         // limits and numerical settings
 };
 
 int RunCommand(const RunCommandOptions& options, std::ostream& out, std::ostream& err);

@@ -14,6 +14,12 @@ int main(int argc, char** argv) {
   auto* run = app.add_subcommand("run", "simulate a netlist and write its results");
   run->add_option("FILE", run_options.netlist, "the netlist")->required();
   run->add_option("--out", run_options.out_dir, "output folder (results go to OUT/CASE/)")->capture_default_str();
+  run->add_option("--max-steps", run_options.engine.limits.max_steps,
+                  "give up after this many integration steps per case")
+      ->capture_default_str();
+  run->add_option("--max-wall", run_options.engine.limits.max_wall_seconds,
+                  "give up after this many seconds of wall-clock time per case (0: no limit)")
+      ->capture_default_str();
 
   std::string check_file;
   auto* check = app.add_subcommand("check", "parse, elaborate and check a netlist; list nodes, elements, unknowns");
