@@ -246,13 +246,9 @@ class Run {
     const double window = options_.events.chatter_window * (period_ > 0 ? period_ : t_end_);
     if (t - last_event_time_ < window) {
       if (++rapid_events_ >= options_.events.chatter_events) {
-        std::set<std::string> names;
-        for (int k : flagged) names.insert(valves_[k].valve->name());
-        std::string list;
-        for (const auto& nm : names) list += (list.empty() ? "" : ", ") + nm;
-        Fail(fmt::format("valve{} {} switched {} times within {:.3g} s at t = {:.9g} s: chattering; "
+        Fail(fmt::format("valve(s) {} switched {} times within {:.3g} s at t = {:.9g} s: chattering; "
                          "consider a snubber or a larger Roff",
-                         names.size() > 1 ? "s" : "", list, rapid_events_, t - chatter_start_, t));
+                         ValveNames(flagged), rapid_events_, t - chatter_start_, t));
         return false;
       }
     } else {
@@ -334,13 +330,9 @@ class Run {
       }
       if (worst < 0) return true;
       if (iteration >= options_.events.max_settle_iterations || !seen.insert(states_).second) {
-        std::set<std::string> names;
-        for (int k : flipped) names.insert(valves_[k].valve->name());
-        std::string list;
-        for (const auto& nm : names) list += (list.empty() ? "" : ", ") + nm;
         Fail(fmt::format("no consistent valve configuration at t = {:.9g} s: valves {} keep "
                          "switching each other",
-                         t, list));
+                         t, ValveNames(flipped)));
         return false;
       }
       Flip(t, worst);
@@ -359,6 +351,15 @@ class Run {
     }
     result_.events.push_back({t, valves_[k].device, state != 0});
     ++result_.summary.switchings;
+  }
+
+  // "B1[1], B1[3]": the distinct names of the valves with these indices.
+  std::string ValveNames(const std::vector<int>& indices) const {
+    std::set<std::string> names;
+    for (int k : indices) names.insert(valves_[k].valve->name());
+    std::string list;
+    for (const auto& name : names) list += (list.empty() ? "" : ", ") + name;
+    return list;
   }
 
   std::string ValveStateText() const {
