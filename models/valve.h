@@ -44,7 +44,9 @@ class Valve final : public Device {
   const ValveParams& params() const { return p_; }
 
   void Stamp(StampSink& sink, bool on) const override;
-  bool has_sources() const override { return true; }
+  // Only a forward drop adds to b(t); valves with Vf = 0 are skipped in
+  // every residual.
+  bool has_sources() const override { return p_.v_f != 0.0; }
   void AddSources(double t, bool on, double* b) const override;
   void SourceRows(std::vector<int>* rows) const override { rows->push_back(branch()); }
   bool Signal(std::string_view what, LinearForm* form, Dim* dim) const override;
