@@ -43,6 +43,11 @@ class MnaSystem {
   // Re-stamps G for the given switch states (one entry per switch slot).
   void SetSwitchStates(const std::vector<std::uint8_t>& states);
 
+  // b(t) for the present switch states.
+  void Sources(double t, double* b) const;
+  const std::vector<double>& g_values() const { return g_values_; }
+  const std::vector<double>& c_values() const { return c_values_; }
+
   // r = C·y' + G·y − b(t).
   void Residual(double t, const double* y, const double* yp, double* r) const;
   // Values of J = G + cj·C in pattern order.
@@ -71,8 +76,6 @@ class MnaSystem {
   bool BackwardEulerStep(double t, double h, double* y, std::string* error);
 
  private:
-  void Sources(double t, double* b) const;
-
   const Circuit& circuit_;
   int n_ = 0;
   SparseMatrix pattern_;

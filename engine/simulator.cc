@@ -20,6 +20,7 @@
 #include "engine/eigen_linear_solver.h"
 #include "engine/fast_vector_ops.h"
 #include "engine/mna.h"
+#include "engine/phasor.h"
 #include "models/valve.h"
 
 namespace lcc {
@@ -143,10 +144,11 @@ class Run {
     Vector id(N_VClone(y_.get()));
     double* a = N_VGetArrayPointer(atol.get());
     double* idv = N_VGetArrayPointer(id.get());
-    for (int k = 0; k < n_; ++k) {
-      a[k] = IsVoltageUnknown(k) ? atol_v : atol_i;
-      idv[k] = mna_.differential()[k] ? 1.0 : 0.0;
-    }
+    const double unit = sim.reltol * options_.tolerances.abstol_fraction;
+    for (int k = 0; k < circuit_.num_nodes() - 1; ++k) a[k] = atol_v;
+    for (const auto& d : circuit_.devices())
+      for (int k = 0; k < d->num_branches(); ++k) a[d->branch(k)] = unit * d->unknown_scale(k, v_ref, i_ref);
+    for (int k = 0; k < n_; ++k) idv[k] = mna_.differential()[k] ? 1.0 : 0.0;
     atol_.assign(a, a + n_);
 
     // Initial state: differential unknowns from i0 / v0, switches as given.
@@ -159,6 +161,19 @@ class Run {
     states_.assign(circuit_.num_switch_slots(), 0);
     for (const auto& d : circuit_.devices())
       if (d->has_switch_state()) states_[d->switch_slot()] = d->initially_on();
+    if (sim.periodic_start && study_.fundamental > 0) {
+      // Start from the AC steady state of the network (engine/phasor.h),
+      // except where the user gave an initial value.
+      mna_.SetSwitchStates(states_);
+      std::vector<double> y0;
+      if (SolvePeriodicStart(mna_, study_.fundamental, &y0)) {
+        for (const auto& d : circuit_.devices()) {
+          if (d->has_initial_value()) continue;
+          for (int k = 0; k < d->num_branches(); ++k)
+            if (mna_.differential()[d->branch(k)]) y[d->branch(k)] = y0[d->branch(k)];
+        }
+      }
+    }
     if (!Settle(0.0, {})) return false;
 
     ida_.reset(IDACreate(*ctx_));
@@ -190,13 +205,6 @@ class Run {
       for (std::size_t i = 0; i < previous_state_.size(); ++i) cycle_peak_[i] = std::abs(previous_state_[i]);
     }
     return true;
-  }
-
-  bool IsVoltageUnknown(int k) const {
-    if (k < circuit_.num_nodes() - 1) return true;
-    for (const auto& d : circuit_.devices())
-      if (d->num_branches() > 0 && d->branch(0) == k) return d->role() == TopologyRole::kCapacitive;
-    return false;
   }
 
   // -- the main loop ----------------------------------------------------------

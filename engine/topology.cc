@@ -47,8 +47,11 @@ std::string DescribeList(const std::vector<const Device*>& devices) {
 
 bool ConductsDc(TopologyRole r) {
   return r == TopologyRole::kResistive || r == TopologyRole::kInductive ||
-         r == TopologyRole::kVoltageSource;
+         r == TopologyRole::kVoltageSource || r == TopologyRole::kWinding;
 }
+
+// Two-terminal devices are the edges of the node graph; cores have no nodes.
+bool IsEdge(const Device& d) { return d.nodes().size() == 2; }
 
 // The devices on the path between nodes a and b in a forest of edges.
 std::vector<const Device*> PathInForest(int n, const std::vector<std::pair<int, const Device*>>* adj,
@@ -97,19 +100,42 @@ TopologyReport CheckTopology(Circuit& circuit, Diagnostics& diags, const Topolog
   {
     UnionFind uf(n);
     for (const auto& d : devices)
-      if (ConductsDc(d->role())) uf.Join(d->nodes()[0], d->nodes()[1]);
+      if (IsEdge(*d) && ConductsDc(d->role())) uf.Join(d->nodes()[0], d->nodes()[1]);
     std::map<int, std::vector<int>> floating;
     for (int node = 1; node < n; ++node)
       if (uf.Find(node) != uf.Find(0)) floating[uf.Find(node)].push_back(node);
+    std::vector<std::unique_ptr<Device>> references;
     for (const auto& [root, nodes] : floating) {
       std::vector<const Device*> touching;
       std::string names;
+      bool magnetic = false;
       for (int node : nodes) {
         names += (names.empty() ? "'" : ", '") + circuit.node_name(node) + "'";
         for (const auto& d : devices)
           if (std::count(d->nodes().begin(), d->nodes().end(), node) &&
-              std::find(touching.begin(), touching.end(), d.get()) == touching.end())
+              std::find(touching.begin(), touching.end(), d.get()) == touching.end()) {
             touching.push_back(d.get());
+            magnetic |= d->magnetic() && ConductsDc(d->role());
+          }
+      }
+      if (magnetic) {
+        // Coupled to the rest only through a core (the valve side of a
+        // rectifier transformer): reference it through a high resistance,
+        // at a star point where it has one.
+        int node = nodes.front();
+        for (int candidate : nodes)
+          if (circuit.is_star_point(candidate)) {
+            node = candidate;
+            break;
+          }
+        const std::string name = "reference." + circuit.node_name(node);
+        references.push_back(std::make_unique<Resistor>(name, circuit.node_loc(node), node, 0,
+                                                        options.reference_resistance));
+        report.notes.push_back(fmt::format(
+            "node{} {} {} coupled to the rest only magnetically; added {} ({:g} ohm to gnd) as {} reference",
+            nodes.size() > 1 ? "s" : "", names, nodes.size() > 1 ? "are" : "is", name,
+            options.reference_resistance, nodes.size() > 1 ? "their" : "its"));
+        continue;
       }
       diags.Error(circuit.node_loc(nodes.front()),
                   fmt::format("node{} {} {} no DC path to gnd; {} connected only through {}",
@@ -118,6 +144,8 @@ TopologyReport CheckTopology(Circuit& circuit, Diagnostics& diags, const Topolog
                   "add a resistor to gnd, or check the node names for a typing error");
       report.ok = false;
     }
+    for (auto& r : references) circuit.Add(std::move(r));
+    if (!references.empty()) circuit.Finalize();
   }
 
   // 3. No loop of voltage sources and capacitors.
@@ -126,7 +154,7 @@ TopologyReport CheckTopology(Circuit& circuit, Diagnostics& diags, const Topolog
     std::vector<std::vector<std::pair<int, const Device*>>> adj(n);
     for (const auto& d : devices) {
       const TopologyRole r = d->role();
-      if (r != TopologyRole::kVoltageSource && r != TopologyRole::kCapacitive) continue;
+      if (!IsEdge(*d) || (r != TopologyRole::kVoltageSource && r != TopologyRole::kCapacitive)) continue;
       const int a = d->nodes()[0], b = d->nodes()[1];
       if (!uf.Join(a, b)) {
         auto loop = PathInForest(n, adj.data(), a, b);
@@ -148,7 +176,7 @@ TopologyReport CheckTopology(Circuit& circuit, Diagnostics& diags, const Topolog
     UnionFind uf(n);
     for (const auto& d : devices) {
       const TopologyRole r = d->role();
-      if (r != TopologyRole::kInductive && r != TopologyRole::kCurrentSource)
+      if (IsEdge(*d) && r != TopologyRole::kInductive && r != TopologyRole::kCurrentSource)
         uf.Join(d->nodes()[0], d->nodes()[1]);
     }
     std::map<int, std::vector<int>> parts;
@@ -159,6 +187,7 @@ TopologyReport CheckTopology(Circuit& circuit, Diagnostics& diags, const Topolog
       std::vector<const Device*> cut;
       bool has_current_source = false;
       for (const auto& d : devices) {
+        if (!IsEdge(*d)) continue;
         const int inside = (uf.Find(d->nodes()[0]) == root) + (uf.Find(d->nodes()[1]) == root);
         if (inside == 1) {
           cut.push_back(d.get());

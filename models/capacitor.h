@@ -13,8 +13,10 @@ namespace lcc {
 
 class Capacitor final : public Device {
  public:
-  Capacitor(std::string name, SourceLoc loc, int a, int b, double capacitance, double v0)
-      : Device(std::move(name), std::move(loc), {a, b}), c_(capacitance), v0_(v0) {}
+  Capacitor(std::string name, SourceLoc loc, int a, int b, double capacitance, double v0,
+            bool v0_given = false)
+      : Device(std::move(name), std::move(loc), {a, b}), c_(capacitance), v0_(v0), v0_given_(v0_given) {}
+  bool has_initial_value() const override { return v0_given_; }
   const char* kind_name() const override { return "capacitor"; }
   TopologyRole role() const override { return TopologyRole::kCapacitive; }
   int num_branches() const override { return 1; }
@@ -25,6 +27,7 @@ class Capacitor final : public Device {
 
  private:
   double c_, v0_;
+  bool v0_given_;
 };
 
 }  // namespace lcc

@@ -58,6 +58,8 @@ std::string Circuit::UnknownName(int k) const {
   if (k < num_nodes() - 1) return "v(" + node_names_[k + 1] + ")";
   for (const auto& d : devices_) {
     if (d->num_branches() > 0 && k >= d->branch(0) && k < d->branch(0) + d->num_branches()) {
+      if (d->role() == TopologyRole::kMagnetic)
+        return (k == d->branch(0) ? "e(" : "i_m(") + d->name() + ")";
       return std::string(d->role() == TopologyRole::kCapacitive ? "v(" : "i(") + d->name() + ")";
     }
   }

@@ -9,6 +9,7 @@
 
 #include <map>
 #include <memory>
+#include <set>
 #include <string>
 #include <vector>
 
@@ -16,9 +17,11 @@
 
 namespace lcc {
 
+// A current users probe by a name of its own (`Grid.a.i`, `T.A.i`): a sum
+// of device currents, each with its sign (a delta winding's line current is
+// the difference of two winding currents).
 struct DeviceAlias {
-  const Device* device = nullptr;
-  double sign = 1.0;  // multiplies the device's `.i`
+  std::vector<std::pair<const Device*, double>> terms;
 };
 
 // The valves of one composite converter (a bridge), in conduction order.
@@ -38,6 +41,10 @@ class Circuit {
   const std::string& node_name(int node) const { return node_names_[node]; }
   const SourceLoc& node_loc(int node) const { return node_locs_[node]; }
   int num_nodes() const { return static_cast<int>(node_names_.size()); }
+  // Star points (of supplies and transformer windings) are preferred where
+  // the topology checks add a reference to gnd.
+  void MarkStarPoint(int node) { star_points_.insert(node); }
+  bool is_star_point(int node) const { return star_points_.count(node) > 0; }
 
   Device& Add(std::unique_ptr<Device> device);
   const std::vector<std::unique_ptr<Device>>& devices() const { return devices_; }
@@ -63,6 +70,7 @@ class Circuit {
   std::map<std::string, const Device*> device_index_;
   std::map<std::string, DeviceAlias> aliases_;
   std::vector<ValveGroup> valve_groups_;
+  std::set<int> star_points_;
   int num_unknowns_ = 0;
   int num_switch_slots_ = 0;
 };

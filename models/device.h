@@ -61,6 +61,9 @@ enum class TopologyRole {
   kCapacitive,     // no DC path; an element of possible capacitor loops
   kVoltageSource,  // a DC path; an element of possible source loops
   kCurrentSource,  // no DC path; an element of possible source cut-sets
+  kWinding,        // a winding without leakage: a DC path between its own
+                   // terminals that behaves like a voltage source (n·e)
+  kMagnetic,       // a core: no terminals, not part of the node graph
 };
 
 class Device {
@@ -81,9 +84,18 @@ class Device {
   virtual int num_branches() const { return 0; }
   void set_first_branch(int index) { first_branch_ = index; }
   int branch(int k = 0) const { return first_branch_ + k; }
+  // The size of branch unknown k, for its absolute tolerance, given the
+  // circuit's voltage and current scales: a capacitor's voltage is a
+  // voltage, every other branch unknown a current unless the device says.
+  virtual double unknown_scale(int /*k*/, double v_ref, double i_ref) const {
+    return role() == TopologyRole::kCapacitive ? v_ref : i_ref;
+  }
   // Initial value of a differential branch unknown (i0 of an inductor, v0 of
   // a capacitor); 0 for the others.
   virtual double initial_value(int /*k*/) const { return 0.0; }
+  // True when the user wrote the initial value (i0, v0): a periodic start
+  // then leaves it alone.
+  virtual bool has_initial_value() const { return false; }
 
   // Switching: devices with an on/off state get a slot in the state vector.
   virtual bool has_switch_state() const { return false; }
@@ -107,6 +119,9 @@ class Device {
 
   // Largest source amplitude (V or A) and smallest resistance, used to set
   // the engine's absolute tolerances. 0 when the device has none.
+  // Windings couple their terminals to the rest only through a core.
+  virtual bool magnetic() const { return false; }
+
   virtual double voltage_scale() const { return 0.0; }
   virtual double current_scale() const { return 0.0; }
   virtual double resistance_scale() const { return 0.0; }

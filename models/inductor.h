@@ -12,8 +12,10 @@ namespace lcc {
 class Inductor final : public Device {
  public:
   Inductor(std::string name, SourceLoc loc, int a, int b, double inductance,
-           double resistance, double i0)
-      : Device(std::move(name), std::move(loc), {a, b}), l_(inductance), r_(resistance), i0_(i0) {}
+           double resistance, double i0, bool i0_given = false)
+      : Device(std::move(name), std::move(loc), {a, b}), l_(inductance), r_(resistance), i0_(i0),
+        i0_given_(i0_given) {}
+  bool has_initial_value() const override { return i0_given_; }
   const char* kind_name() const override { return "inductor"; }
   TopologyRole role() const override { return TopologyRole::kInductive; }
   int num_branches() const override { return 1; }
@@ -26,6 +28,7 @@ class Inductor final : public Device {
 
  private:
   double l_, r_, i0_;
+  bool i0_given_;
 };
 
 }  // namespace lcc

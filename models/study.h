@@ -15,7 +15,8 @@ struct SimulateSpec {
   double stop = 0.0;          // s, hard end of the run
   double sample = 0.0;        // s, output interval (0: period/1024, or stop/10000)
   double reltol = 1e-6;       // relative tolerance of the integrator
-  double max_step = 0.0;      // s (0: one electrical degree, or stop/1000)
+  double max_step = 0.0;      // s (0: two electrical degrees, or stop/1000)
+  bool periodic_start = true; // start from the network's AC steady state (engine/phasor.h)
   SourceLoc loc;
 };
 

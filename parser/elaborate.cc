@@ -11,7 +11,9 @@
 #include <sstream>
 
 #include "models/capacitor.h"
+#include "models/core.h"
 #include "models/inductor.h"
+#include "models/winding.h"
 #include "models/resistor.h"
 #include "models/source_branch.h"
 #include "models/sources.h"
@@ -20,6 +22,7 @@
 #include "parser/kinds.h"
 #include "parser/layout.h"
 #include "parser/netlist.h"
+#include "parser/vector_group.h"
 
 namespace lcc {
 namespace {
@@ -107,6 +110,35 @@ class Elaborator {
   }
 
   void Finish() {
+    // Cores built from `core` statements: their reference winding, and the
+    // lossless default of Rc.
+    for (auto& [core_name, use] : cores_) {
+      if (use.windings.empty()) {
+        diags_.Error(use.core->loc(), fmt::format("core {} has no windings", core_name));
+        continue;
+      }
+      const Winding* ref = use.windings.front();
+      if (!use.ref.empty()) {
+        ref = nullptr;
+        for (const Winding* w : use.windings)
+          if (w->name() == use.ref) ref = w;
+        if (!ref) {
+          diags_.Error(use.ref_loc, fmt::format("'{}' is not a winding on core {}", use.ref, core_name));
+          continue;
+        }
+      }
+      double rc = use.core->rc();
+      if (rc == 0.0) {
+        if (design_.study.fundamental <= 0) {
+          diags_.Error(use.core->loc(), fmt::format("core {} needs Rc: the circuit has no fundamental frequency "
+                                                    "to set its lossless default", core_name));
+          continue;
+        }
+        rc = kLosslessRcFactor * 2 * std::numbers::pi * design_.study.fundamental * use.core->lm();
+      }
+      use.core->Configure(rc, ref->turns());
+    }
+    if (diags_.has_errors()) return;
     // Probes refer to unknowns by index: number them first.
     design_.circuit.Finalize();
     for (const auto& p : probes_) CompileProbe(p);
@@ -135,8 +167,7 @@ class Elaborator {
     if (kw == "probe") return ProbeStatement(s, file);
     if (kw == "simulate" || kw == "steady") return StudyStatement(s, file);
     if (const KindSpec* kind = FindElementKind(kw)) return Element(*kind, s, file);
-    static const std::set<std::string> kLater{"case", "sweep", "define", "transformer", "core",
-                                              "winding", "thyristor", "firing", "at", "set"};
+    static const std::set<std::string> kLater{"case", "sweep", "define", "thyristor", "firing", "at", "set"};
     if (kLater.count(kw)) {
       Error(file, s.keyword.offset, fmt::format("'{}' is not supported by this version", kw));
       return;
@@ -247,6 +278,7 @@ class Elaborator {
       sim.sample = set.number("sample");
       sim.reltol = set.number("reltol", 1e-6);
       sim.max_step = set.number("max_step");
+      sim.periodic_start = set.words["start"] != "zero";
       sim.loc = loc;
       design_.study.simulate = sim;
     } else {
@@ -329,10 +361,10 @@ class Elaborator {
       c.Add(std::make_unique<Resistor>(name, loc, node(ports[0]), node(ports[1]), set.number("R")));
     } else if (kind.name == "inductor") {
       c.Add(std::make_unique<Inductor>(name, loc, node(ports[0]), node(ports[1]), set.number("L"),
-                                       set.number("R"), set.number("i0")));
+                                       set.number("R"), set.number("i0"), set.has("i0")));
     } else if (kind.name == "capacitor") {
       c.Add(std::make_unique<Capacitor>(name, loc, node(ports[0]), node(ports[1]), set.number("C"),
-                                        set.number("v0")));
+                                        set.number("v0"), set.has("v0")));
     } else if (kind.name == "voltage_source" || kind.name == "current_source") {
       auto w = SourceWaveform(kind, s, file, set);
       if (!w) return;
@@ -353,6 +385,115 @@ class Elaborator {
       Supply(name, loc, ports, set, s, file);
     } else if (kind.name == "bridge") {
       Bridge(name, loc, set, s, file);
+    } else if (kind.name == "core") {
+      auto& core = static_cast<Core&>(c.Add(std::make_unique<Core>(name, loc, set.number("Lm"), set.number("Rc"), 0.0)));
+      cores_[name] = {&core, set.words.count("ref") ? set.words.at("ref") : "", set.has("ref") ? set.where.at("ref") : loc};
+    } else if (kind.name == "winding") {
+      const std::string& core_name = set.words.at("core");
+      auto it = cores_.find(core_name);
+      if (it == cores_.end()) {
+        diags_.Error(set.where.at("core"), fmt::format("no core named '{}' (define it before its windings)", core_name));
+        return;
+      }
+      auto& w = static_cast<Winding&>(c.Add(std::make_unique<Winding>(
+          name, loc, node(ports[0]), node(ports[1]), it->second.core, set.number("turns"), set.number("R"),
+          set.number("Lleak"))));
+      it->second.windings.push_back(&w);
+    } else if (kind.name == "transformer") {
+      Transformer(name, loc, set, s, file);
+    }
+  }
+
+  // A transformer is three single-phase cores, each with an HV and an LV
+  // winding, connected as its vector group says (parser/vector_group.h).
+  // Per phase (per core), on the HV winding's base Z = V_w1²/(S/3):
+  //   R + jX = z·Z with X/R = xr, split equally between the windings
+  //   (the LV half referred by (N2/N1)²), the usual assumption when the
+  //   test report gives no split;
+  //   magnetising reactance X_m = V_w1/(im·I_w1), I_w1 = S/(3·V_w1);
+  //   core loss Rc = V_w1²/(p0/3) across the HV winding.
+  // Turns are the windings' rated voltages, so the core EMF is near 1 V per
+  // turn at rated voltage.
+  void Transformer(const std::string& name, const SourceLoc& loc, const Settings& set,
+                   const ast::Statement& s, const FilePtr& file) {
+    const std::string& group_name = set.words.at("group");
+    auto group = ParseVectorGroup(group_name);
+    if (!group) {
+      diags_.Error(set.where.at("group"), fmt::format("unknown vector group '{}'", group_name),
+                   std::string("known groups: ") + KnownVectorGroups());
+      return;
+    }
+    const double f = set.has("f") ? set.number("f") : design_.study.fundamental;
+    if (f <= 0) {
+      Error(file, s.name->offset, fmt::format("transformer {} needs f: no supply or sinusoidal source precedes it", name));
+      return;
+    }
+    Circuit& c = design_.circuit;
+    const double w = 2 * std::numbers::pi * f;
+    const double S = set.number("S"), v1 = set.number("V1"), v2 = set.number("V2");
+    const double vw1 = group->hv.delta ? v1 : v1 / std::sqrt(3.0);
+    const double vw2 = group->lv.delta ? v2 : v2 / std::sqrt(3.0);
+    const double zbase = vw1 * vw1 / (S / 3.0);
+    const double xr = set.number("xr", 10.0);
+    const double r_total = set.number("z") * zbase / std::sqrt(1.0 + xr * xr);
+    const double x_total = xr * r_total;
+    const double ratio2 = (vw2 / vw1) * (vw2 / vw1);
+    const double xm = vw1 / (set.number("im", 0.01) * (S / 3.0) / vw1);
+    const double rc = set.number("p0") > 0 ? vw1 * vw1 / (set.number("p0") / 3.0) : kLosslessRcFactor * xm;
+
+    auto node = [&](const ast::Ident& id) { return c.Node(id.name, SourceLoc{file, id.offset}); };
+    const auto& hv = set.nodes.at("hv");
+    const auto& lv = set.nodes.at("lv");
+    int hv_term[3], lv_term[3];
+    for (int k = 0; k < 3; ++k) {
+      hv_term[k] = node(hv[k]);
+      lv_term[k] = node(lv[k]);
+    }
+    auto star = [&](bool delta, const char* key, const std::string& internal) {
+      if (delta) return -1;
+      int n = set.nodes.count(key) ? node(set.nodes.at(key)[0]) : c.Node(internal, loc);
+      c.MarkStarPoint(n);
+      return n;
+    };
+    if ((set.nodes.count("neutral_hv") && !group->hv.neutral) || (set.nodes.count("neutral_lv") && !group->lv.neutral)) {
+      Error(file, s.name->offset, fmt::format("a neutral is given but group {} brings none out", group_name),
+            "write N (HV) or n (LV) in the group, e.g. YNd11 or Dyn11");
+      return;
+    }
+    const int hv_star = star(group->hv.delta, "neutral_hv", name + ".hv_star");
+    const int lv_star = star(group->lv.delta, "neutral_lv", name + ".lv_star");
+    // Ends of the winding of phase k: (dotted, other).
+    auto ends = [](const WindingArrangement& a, const int* term, int star_node, int k) {
+      const int other = a.delta ? term[(k + a.step + 3) % 3] : star_node;
+      return a.reversed ? std::pair{other, term[k]} : std::pair{term[k], other};
+    };
+    const char* phase[3] = {"a", "b", "c"};
+    const char* hv_port[3] = {"A", "B", "C"};
+    std::vector<const Winding*> hv_w, lv_w;
+    for (int k = 0; k < 3; ++k) {
+      auto& core = static_cast<Core&>(c.Add(std::make_unique<Core>(
+          fmt::format("{}.core_{}", name, phase[k]), loc, xm / w, rc, vw1)));
+      auto [h1, h2] = ends(group->hv, hv_term, hv_star, k);
+      auto [l1, l2] = ends(group->lv, lv_term, lv_star, k);
+      hv_w.push_back(&static_cast<const Winding&>(c.Add(std::make_unique<Winding>(
+          fmt::format("{}.hv_{}", name, phase[k]), loc, h1, h2, &core, vw1, r_total / 2, x_total / 2 / w))));
+      lv_w.push_back(&static_cast<const Winding&>(c.Add(std::make_unique<Winding>(
+          fmt::format("{}.lv_{}", name, phase[k]), loc, l1, l2, &core, vw2, r_total / 2 * ratio2,
+          x_total / 2 / w * ratio2))));
+    }
+    // Line currents into the terminals: the sum of the winding currents
+    // leaving each terminal into a winding.
+    auto line_alias = [&](const std::vector<const Winding*>& ws, int terminal, const std::string& alias) {
+      DeviceAlias a;
+      for (const Winding* wd : ws) {
+        if (wd->nodes()[0] == terminal) a.terms.emplace_back(wd, 1.0);
+        if (wd->nodes()[1] == terminal) a.terms.emplace_back(wd, -1.0);
+      }
+      c.AddAlias(alias, a);
+    };
+    for (int k = 0; k < 3; ++k) {
+      line_alias(hv_w, hv_term[k], fmt::format("{}.{}", name, hv_port[k]));
+      line_alias(lv_w, lv_term[k], fmt::format("{}.{}", name, phase[k]));
     }
   }
 
@@ -426,6 +567,7 @@ class Elaborator {
     if (set.nodes.count("neutral")) {
       const auto& id = set.nodes.at("neutral")[0];
       star = design_.circuit.Node(id.name, SourceLoc{file, id.offset});
+      design_.circuit.MarkStarPoint(star);
     }
     if (design_.study.fundamental == 0.0) design_.study.fundamental = f;
     const double vph = std::sqrt(2.0 / 3.0) * vll;
@@ -446,7 +588,7 @@ class Elaborator {
       const int terminal = design_.circuit.Node(ports[k].name, SourceLoc{file, ports[k].offset});
       auto& branch = design_.circuit.Add(
           std::make_unique<SourceBranch>(name + "." + ph, loc, star, terminal, e, r, l));
-      design_.circuit.AddAlias(name + "." + ph, {&branch, 1.0});
+      design_.circuit.AddAlias(name + "." + ph, {{{&branch, 1.0}}});
     }
   }
 
@@ -542,6 +684,17 @@ class Elaborator {
         continue;
       }
       const auto& expr = boost::get<ast::Expr>(setting.value);
+      if (spec->type == KeyType::kName) {
+        auto id = SingleName(expr);
+        if (!id) {
+          Error(file, expr.offset, fmt::format("{} needs a name", key));
+          ok = false;
+          continue;
+        }
+        out->words[key] = id->name;
+        out->where[key] = SourceLoc{file, expr.offset};
+        continue;
+      }
       if (spec->type == KeyType::kWord) {
         auto id = SingleName(expr);
         std::string words;
@@ -668,29 +821,29 @@ class Elaborator {
           return std::nullopt;
         }
         const std::string element = key.substr(0, key.size() - last.name.size() - 1);
-        const Device* device = nullptr;
-        double sign = 1.0;
         if (const DeviceAlias* alias = c.FindAlias(element)) {
           if (last.name != "i") {
             Error(file, p.offset, fmt::format("'{}' has only a current (.i)", element));
             return std::nullopt;
           }
-          device = alias->device;
-          sign = alias->sign;
+          for (const auto& [device, sign] : alias->terms) {
+            LinearForm part;
+            device->Signal("i", &part, &dim);
+            for (const auto& [k, a] : part.y) form.AddY(k, sign * a);
+            for (const auto& [k, a] : part.yp) form.AddYp(k, sign * a);
+          }
         } else {
-          device = c.FindDevice(element);
+          const Device* device = c.FindDevice(element);
+          if (!device) {
+            Error(file, p.offset, fmt::format("no element named '{}'", element));
+            return std::nullopt;
+          }
+          if (!device->Signal(last.name, &form, &dim)) {
+            Error(file, p.offset,
+                  fmt::format("{} {} has no probe-able .{}", device->kind_name(), element, last.name));
+            return std::nullopt;
+          }
         }
-        if (!device) {
-          Error(file, p.offset, fmt::format("no element named '{}'", element));
-          return std::nullopt;
-        }
-        if (!device->Signal(last.name, &form, &dim)) {
-          Error(file, p.offset,
-                fmt::format("{} {} has no probe-able .{}", device->kind_name(), element, last.name));
-          return std::nullopt;
-        }
-        for (auto& t : form.y) t.second *= sign;
-        for (auto& t : form.yp) t.second *= sign;
       }
       auto [it, inserted] = slot_of.emplace(key, static_cast<int>(probe.slots.size()));
       if (inserted) {
@@ -772,6 +925,14 @@ class Elaborator {
   std::map<std::string, SourceLoc> probe_names_;
   std::vector<PendingProbe> probes_;
   std::vector<std::string> include_stack_;
+
+  struct CoreUse {
+    Core* core = nullptr;
+    std::string ref;  // reference winding's name, empty: the first
+    SourceLoc ref_loc;
+    std::vector<Winding*> windings;
+  };
+  std::map<std::string, CoreUse> cores_;
 };
 
 }  // namespace

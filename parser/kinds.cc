@@ -30,6 +30,14 @@ KeySpec Word(std::string_view name, std::vector<std::string_view> words,
   k.doc = doc;
   return k;
 }
+KeySpec Name(std::string_view name, bool required, std::string_view doc) {
+  KeySpec k;
+  k.name = name;
+  k.type = KeyType::kName;
+  k.required = required;
+  k.doc = doc;
+  return k;
+}
 KeySpec Nodes(std::string_view name, int count, bool required, std::string_view doc) {
   KeySpec k;
   k.name = name;
@@ -107,6 +115,32 @@ const std::vector<KindSpec>& ElementKinds() {
       kinds.push_back({"switch", {"a", "b"}, keys, "a switch held open or closed"});
     }
     kinds.push_back({"diode", {"anode", "cathode"}, ValveKeys(), "a diode valve"});
+    kinds.push_back({"core", {},
+                     {Num("Lm", dims::kInductance, std::nullopt, kPos, "magnetising inductance, referred to the reference winding", true),
+                      Num("Rc", dims::kResistance, std::nullopt, kPos, "core-loss resistance across the reference winding (default: lossless, 1e4 × ωLm)"),
+                      Name("ref", false, "the reference winding (default: the first winding on the core)")},
+                     "a magnetic core coupling windings"});
+    kinds.push_back({"winding", {"a", "b"},
+                     {Name("core", true, "the core it is wound on"),
+                      Num("turns", dims::kNone, std::nullopt, kPos, "number of turns", true),
+                      Num("R", dims::kResistance, 0.0, kNonNeg, "series resistance"),
+                      Num("Lleak", dims::kInductance, 0.0, kNonNeg, "leakage inductance")},
+                     "a winding on a core; a is its dotted end"});
+    kinds.push_back({"transformer", {},
+                     {Nodes("hv", 3, true, "the HV terminals (A, B, C)"),
+                      Nodes("lv", 3, true, "the LV terminals (a, b, c)"),
+                      Nodes("neutral_hv", 1, false, "node of the HV star point (groups with YN)"),
+                      Nodes("neutral_lv", 1, false, "node of the LV star point (groups with yn)"),
+                      Name("group", true, "IEC 60076-1 vector group, e.g. Dyn11"),
+                      Num("S", dims::kPower, std::nullopt, kPos, "rated power (three-phase)", true),
+                      Num("V1", dims::kVoltage, std::nullopt, kPos, "rated HV line-to-line voltage", true),
+                      Num("V2", dims::kVoltage, std::nullopt, kPos, "rated LV line-to-line voltage", true),
+                      Num("z", dims::kNone, std::nullopt, kPos, "short-circuit impedance, fraction of the rating base", true),
+                      Num("xr", dims::kNone, 10.0, kPos, "X/R ratio of the short-circuit impedance"),
+                      Num("im", dims::kNone, 0.01, kPos, "magnetising current, fraction of rated current"),
+                      Num("p0", dims::kPower, 0.0, kNonNeg, "no-load (core) loss, three-phase"),
+                      Num("f", dims::kFrequency, std::nullopt, kPos, "rated frequency (default: the circuit's fundamental)")},
+                     "a three-phase two-winding transformer from its nameplate"});
     {
       std::vector<KeySpec> keys = {
           Nodes("ac", 3, true, "the AC terminals (a, b, c)"),
@@ -130,7 +164,8 @@ const std::vector<KindSpec>& StudyStatements() {
                  {Num("stop", dims::kTime, std::nullopt, kPos, "end of the run", true),
                   Num("sample", dims::kTime, std::nullopt, kPos, "output interval (default: period/1024, or stop/10000 without a periodic source)"),
                   Num("reltol", dims::kNone, 1e-6, Constraint::kFraction, "relative tolerance of the integrator"),
-                  Num("max_step", dims::kTime, std::nullopt, kPos, "largest integration step (default: two electrical degrees, or stop/1000)")},
+                  Num("max_step", dims::kTime, std::nullopt, kPos, "largest integration step (default: two electrical degrees, or stop/1000)"),
+                  Word("start", {"phasor", "zero"}, "phasor", "initial state: the AC steady state of the network with the valves blocking, or zero")},
                  "the run"});
     s.push_back({"steady", {},
                  {Num("cycles", dims::kNone, 2.0, Constraint::kPositiveInteger, "whole cycles recorded once steady"),

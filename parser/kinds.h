@@ -19,6 +19,7 @@ enum class KeyType {
   kNumber,  // an expression with a unit
   kWord,    // one of a fixed set of words (`valve = diode`)
   kNodes,   // a node list `(a, b, c)`, or one node name when count == 1
+  kName,    // a name: of another element (`core = C1`) or a code (`group = Dyn11`)
 };
 
 enum class Constraint { kAny, kPositive, kNonNegative, kPositiveInteger, kFraction };

@@ -17,7 +17,7 @@ TEST_CASE("SteadyStateOfAnRcLowPassMatchesThePhasorSolution", "[engine][steady][
 voltage_source E (s, gnd) peak = 10 V f = 50 Hz
 resistor R (s, x) R = 1 kohm
 capacitor C (x, gnd) C = 4 uF
-simulate stop = 1 s
+simulate stop = 1 s start = zero
 steady cycles = 3 tol = 1e-6
 probe vc = C.v
 )");
@@ -34,6 +34,22 @@ probe vc = C.v
   REQUIRE(w.max == Approx(amplitude).epsilon(1e-4));
   REQUIRE(w.rms == Approx(amplitude / std::sqrt(2.0)).epsilon(1e-4));
   REQUIRE(std::abs(w.mean) < 1e-4 * amplitude);
+}
+
+TEST_CASE("APhasorStartIsSteadyFromTheFirstCycles", "[engine][steady][analytic]") {
+  // Started from the phasor solution there is no transient: the first two
+  // cycle comparisons agree, so steady is declared at the second boundary.
+  auto c = testing::Simulate(R"(
+voltage_source E (s, gnd) peak = 10 V f = 50 Hz
+resistor R (s, x) R = 1 kohm
+capacitor C (x, gnd) C = 4 uF
+simulate stop = 1 s
+steady cycles = 1 tol = 1e-6
+probe vc = C.v
+)");
+  REQUIRE(c.run.summary.steady_time == Approx(0.04));
+  const double wrc = 2 * std::numbers::pi * 50 * 1e3 * 4e-6;
+  REQUIRE(c.Window("vc").max == Approx(10.0 / std::sqrt(1 + wrc * wrc)).epsilon(1e-4));
 }
 
 TEST_CASE("WithoutSteadyTheLastCycleIsAnalysed", "[engine][steady]") {
