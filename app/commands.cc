@@ -8,6 +8,7 @@
 #include "engine/topology.h"
 #include "parser/elaborate.h"
 #include "results/atomic_file.h"
+#include "results/events.h"
 #include "results/recorder.h"
 #include "results/writers.h"
 
@@ -81,6 +82,8 @@ int RunCommand(const RunCommandOptions& options, std::ostream& out, std::ostream
   CaseOutput output{case_name, options.netlist, &design->circuit, &recorder, &run, topology.notes};
   try {
     WriteWaveformsCsv((case_dir / "waveforms.csv").string(), recorder);
+    WriteEventsCsv((case_dir / "events.csv").string(),
+                   EventLog(design->circuit, run, run.summary.period > 0 ? 1.0 / run.summary.period : 0.0));
     WriteFileAtomically((case_dir / "report.txt").string(), FormatReport(output));
   } catch (const std::exception& e) {
     err << "lccsim: error: " << e.what() << "\n";

@@ -7,39 +7,63 @@
 
 namespace lcc {
 
-bool SolvePeriodicStart(MnaSystem& mna, double frequency, std::vector<double>* y0) {
+namespace {
+
+constexpr int kSamples = 256;  // harmonics up to 127 are exact
+
+// B_h = (2/N)·Σ_k b(t_k)·e^(−j·h·2πk/N) over one period of b(t).
+Eigen::MatrixXd SampleSources(MnaSystem& mna, double period) {
   const int n = mna.size();
-  constexpr int kSamples = 256;  // harmonics up to 127 are exact
-  constexpr int kMaxHarmonic = 100;
-  const double period = 1.0 / frequency;
-  // b(t) over one period.
   Eigen::MatrixXd b(n, kSamples);
   std::vector<double> column(n);
   for (int k = 0; k < kSamples; ++k) {
     mna.Sources(period * k / kSamples, column.data());
     for (int i = 0; i < n; ++i) b(i, k) = column[i];
   }
-  y0->assign(n, 0.0);
+  return b;
+}
+
+Eigen::VectorXcd Harmonic(const Eigen::MatrixXd& b, int h) {
+  Eigen::VectorXcd bh = Eigen::VectorXcd::Zero(b.rows());
+  for (int k = 0; k < kSamples; ++k) {
+    const std::complex<double> w = std::polar(2.0 / kSamples, -2.0 * std::numbers::pi * h * k / kSamples);
+    for (int i = 0; i < b.rows(); ++i)
+      if (b(i, k) != 0.0) bh[i] += b(i, k) * w;
+  }
+  return bh;
+}
+
+bool SolveAt(MnaSystem& mna, double frequency, int h, const Eigen::VectorXcd& bh, Eigen::VectorXcd* y) {
+  const int n = mna.size();
   const auto& pattern = mna.pattern();
   const std::vector<double>& g = mna.g_values();
   const std::vector<double>& c = mna.c_values();
+  Eigen::MatrixXcd a = Eigen::MatrixXcd::Zero(n, n);
+  const std::complex<double> jw(0.0, 2.0 * std::numbers::pi * frequency * h);
+  for (int col = 0; col < n; ++col)
+    for (int p = pattern.outerIndexPtr()[col]; p < pattern.outerIndexPtr()[col + 1]; ++p)
+      a(pattern.innerIndexPtr()[p], col) += g[p] + jw * c[p];
+  *y = Eigen::PartialPivLU<Eigen::MatrixXcd>(a).solve(bh);
+  return y->allFinite();
+}
+
+}  // namespace
+
+bool SolveHarmonicPhasor(MnaSystem& mna, double frequency, int h, Eigen::VectorXcd* y) {
+  const Eigen::MatrixXd b = SampleSources(mna, 1.0 / frequency);
+  return SolveAt(mna, frequency, h, Harmonic(b, h), y);
+}
+
+bool SolvePeriodicStart(MnaSystem& mna, double frequency, std::vector<double>* y0) {
+  const int n = mna.size();
+  constexpr int kMaxHarmonic = 100;
+  const Eigen::MatrixXd b = SampleSources(mna, 1.0 / frequency);
+  y0->assign(n, 0.0);
   for (int h = 1; h <= kMaxHarmonic; ++h) {
-    // B_h = (2/N)·Σ_k b(t_k)·e^(−j·h·2πk/N)
-    Eigen::VectorXcd bh = Eigen::VectorXcd::Zero(n);
-    for (int k = 0; k < kSamples; ++k) {
-      const std::complex<double> w = std::polar(2.0 / kSamples, -2.0 * std::numbers::pi * h * k / kSamples);
-      for (int i = 0; i < n; ++i)
-        if (b(i, k) != 0.0) bh[i] += b(i, k) * w;
-    }
+    const Eigen::VectorXcd bh = Harmonic(b, h);
     if (bh.cwiseAbs().maxCoeff() <= 1e-12 * (b.cwiseAbs().maxCoeff() + 1e-300)) continue;
-    Eigen::MatrixXcd a = Eigen::MatrixXcd::Zero(n, n);
-    const std::complex<double> jw(0.0, 2.0 * std::numbers::pi * frequency * h);
-    for (int col = 0; col < n; ++col)
-      for (int p = pattern.outerIndexPtr()[col]; p < pattern.outerIndexPtr()[col + 1]; ++p)
-        a(pattern.innerIndexPtr()[p], col) += g[p] + jw * c[p];
-    Eigen::PartialPivLU<Eigen::MatrixXcd> lu(a);
-    const Eigen::VectorXcd yh = lu.solve(bh);
-    if (!yh.allFinite()) return false;
+    Eigen::VectorXcd yh;
+    if (!SolveAt(mna, frequency, h, bh, &yh)) return false;
     for (int i = 0; i < n; ++i) (*y0)[i] += yh[i].real();
   }
   return true;

@@ -13,6 +13,7 @@
 // are left out: a DC source present at t = 0 is a step, as written.
 #pragma once
 
+#include <Eigen/Dense>
 #include <vector>
 
 #include "engine/mna.h"
@@ -23,5 +24,9 @@ namespace lcc {
 // its present switch states. Returns false if the phasor system is
 // singular at some harmonic (the caller then starts from zero).
 bool SolvePeriodicStart(MnaSystem& mna, double frequency, std::vector<double>* y0);
+
+// The phasor Y_h of every unknown at harmonic h of `frequency`, in the
+// present switch states: y(t) contains Re(Y_h·e^(j·hωt)).
+bool SolveHarmonicPhasor(MnaSystem& mna, double frequency, int h, Eigen::VectorXcd* y);
 
 }  // namespace lcc

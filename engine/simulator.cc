@@ -11,6 +11,7 @@
 #include <chrono>
 #include <cstdio>
 #include <cstdlib>
+#include <limits>
 #include <cmath>
 #include <memory>
 #include <numbers>
@@ -21,6 +22,7 @@
 #include "engine/fast_vector_ops.h"
 #include "engine/mna.h"
 #include "engine/phasor.h"
+#include "models/source_branch.h"
 #include "models/valve.h"
 
 namespace lcc {
@@ -174,7 +176,12 @@ class Run {
         }
       }
     }
+    ComputeFiringReferences();
+    recover_until_.assign(valves_.size(), -1.0);
+    t_off_.assign(valves_.size(), -1.0);
+    awaiting_forward_.assign(valves_.size(), 0);
     if (!Settle(0.0, {})) return false;
+    next_gate_edge_ = NextGateEdge(0.0);
 
     ida_.reset(IDACreate(*ctx_));
     if (!ida_) throw std::runtime_error("IDACreate failed");
@@ -186,7 +193,7 @@ class Run {
     Check(IDASetId(mem, id.get()), "IDASetId");
     Check(IDASetSuppressAlg(mem, SUNTRUE), "IDASetSuppressAlg");
     Check(IDASetMaxStep(mem, s.max_step_used), "IDASetMaxStep");
-    Check(IDASetStopTime(mem, t_end_), "IDASetStopTime");
+    ArmStopTime(0.0);
 
     const auto& pattern = mna_.pattern();
     jacobian_.reset(SUNSparseMatrix(n_, n_, pattern.nonZeros(), CSC_MAT, *ctx_));
@@ -245,7 +252,13 @@ class Run {
         ++result_.summary.events;
         if (!HandleEvent(t, flagged)) return;
       }
-      if (flag == IDA_TSTOP_RETURN || t >= t_end_) break;
+      if (t >= t_end_) break;
+      if (flag == IDA_TSTOP_RETURN && t >= next_gate_edge_) {
+        // A gate pulse starts: fire the thyristors it finds forward biased.
+        next_gate_edge_ = NextGateEdge(t);
+        if (!HandleEvent(t, {})) return;
+        ArmStopTime(t);
+      }
     }
   }
 
@@ -265,8 +278,26 @@ class Run {
     }
     last_event_time_ = t;
 
-    Accumulate();
-    if (!Settle(t, flagged)) return false;
+    // Roots of blocking thyristors that are not armed (no gate pulse, fully
+    // recovered) only mark their voltage turning positive: the end of the
+    // extinction interval. They change nothing.
+    std::vector<int> flips;
+    const double* y = N_VGetArrayPointer(y_.get());
+    for (int k : flagged) {
+      const Valve& v = *valves_[k].valve;
+      if (states_[v.switch_slot()] || Armed(k, t)) {
+        flips.push_back(k);
+      } else if (awaiting_forward_[k] && v.Voltage(y) >= v.params().v_f) {
+        result_.forward_voltage.push_back({t, valves_[k].device, t_off_[k]});
+        awaiting_forward_[k] = 0;
+      }
+    }
+    if (flips.empty() && !flagged.empty()) return true;
+
+    const long switchings_before = result_.summary.switchings;
+    if (!Settle(t, flips)) return false;
+    if (flagged.empty() && result_.summary.switchings == switchings_before) return true;
+    Accumulate();  // IDAReInit below resets IDA's counters
     // Relax the parasitic fast modes (see MnaSystem::BackwardEulerStep) with
     // one tiny implicit step, then restart IDA from there.
     const double h_relax = options_.events.relax_step_fraction * result_.summary.max_step_used;
@@ -297,7 +328,7 @@ class Run {
     Check(IDAReInit(mem, t, y_.get(), yp_.get()), "IDAReInit");
     t_restart_ = t;
     if (h0 > 0) Check(IDASetInitStep(mem, h0), "IDASetInitStep");
-    Check(IDASetStopTime(mem, t_end_), "IDASetStopTime");
+    ArmStopTime(t);
     SetRootDirections();
     return true;
   }
@@ -328,8 +359,8 @@ class Run {
       for (std::size_t k = 0; k < valves_.size(); ++k) {
         const Valve& v = *valves_[k].valve;
         const bool on = states_[v.switch_slot()];
-        if (!on && just_off[k]) continue;
-        const double violation = on ? (-eps_i_ - v.Current(y)) / i_ref_
+        if (!on && (just_off[k] || !Armed(static_cast<int>(k), t))) continue;
+        const double violation = on ? (v.params().i_h - eps_i_ - v.Current(y)) / i_ref_
                                     : (v.Voltage(y) - v.params().v_f - eps_v_) / v_ref_;
         if (violation > worst_violation) {
           worst_violation = violation;
@@ -352,13 +383,106 @@ class Run {
     const Valve& v = *valves_[k].valve;
     auto& state = states_[v.switch_slot()];
     state = !state;
+    SwitchEvent::Cause cause = SwitchEvent::Cause::kTurnOff;
+    if (state) {
+      cause = SwitchEvent::Cause::kNatural;
+      if (v.type() == Valve::Type::kThyristor)
+        cause = GateActive(v, t) ? SwitchEvent::Cause::kGate : SwitchEvent::Cause::kRecoveryFailure;
+      awaiting_forward_[k] = 0;
+    } else {
+      t_off_[k] = t;
+      recover_until_[k] = t + v.params().t_q;
+      awaiting_forward_[k] = v.type() == Valve::Type::kThyristor;
+    }
     if (trace_) {
       const double* y = N_VGetArrayPointer(y_.get());
       std::fprintf(stderr, "lccsim trace: t = %.12g s  %s -> %s  (i = %.6g A, v = %.6g V)\n", t,
                    v.name().c_str(), state ? "on" : "off", v.Current(y), v.Voltage(y));
     }
-    result_.events.push_back({t, valves_[k].device, state != 0});
+    result_.events.push_back({t, valves_[k].device, state != 0, cause});
     ++result_.summary.switchings;
+  }
+
+  // -- gates ------------------------------------------------------------------
+
+  // Valve 1's natural commutation instant within [0, T) for each firing
+  // element: from the open-circuit (phasor) voltages at its bridge's AC
+  // terminals, where v_a − v_c rises through zero, so that transformer phase
+  // shifts are included; without a bridge, 30° after the sync supply's
+  // phase-a EMF rises through zero.
+  void ComputeFiringReferences() {
+    const auto& firings = circuit_.firings();
+    result_.firing_reference.assign(firings.size(), 0.0);
+    if (firings.empty() || period_ <= 0) return;
+    const double w = 2 * std::numbers::pi / period_;
+    Eigen::VectorXcd phasor;
+    const bool have_phasor = SolveHarmonicPhasor(mna_, 1.0 / period_, 1, &phasor);
+    for (std::size_t f = 0; f < firings.size(); ++f) {
+      double angle = 0.0;  // ω·t1
+      if (firings[f].group >= 0 && have_phasor) {
+        const auto& group = circuit_.valve_groups()[firings[f].group];
+        auto node_phasor = [&](int node) { return node > 0 ? phasor[NodeUnknown(node)] : std::complex<double>(0.0); };
+        const int a = circuit_.devices()[group.devices[0]]->nodes()[0];  // valve 1's anode
+        const int c = circuit_.devices()[group.devices[4]]->nodes()[0];  // valve 5's anode
+        angle = -std::numbers::pi / 2 - std::arg(node_phasor(a) - node_phasor(c));
+      } else {
+        const auto& e = static_cast<const SourceBranch&>(*circuit_.devices()[firings[f].supply_phase_device]).waveform();
+        const double phase = e.sines.empty() ? 0.0 : e.sines.front().phase;
+        angle = std::numbers::pi / 6 - phase;
+      }
+      angle = std::fmod(angle, 2 * std::numbers::pi);
+      if (angle < 0) angle += 2 * std::numbers::pi;
+      result_.firing_reference[f] = angle / w;
+    }
+  }
+
+  // Start of pulse `pulse` of firing `f` in the cycle containing t = 0.
+  double PulseStart(const GateRef& g) const {
+    const Firing& f = circuit_.firings()[g.firing];
+    const double w = 2 * std::numbers::pi / period_;
+    return result_.firing_reference[g.firing] + (g.pulse - 1) * period_ / 6 + f.alpha / w;
+  }
+
+  bool GateActive(const Valve& v, double t) const {
+    if (v.type() != Valve::Type::kThyristor || v.gate().firing < 0 || period_ <= 0) return false;
+    const Firing& f = circuit_.firings()[v.gate().firing];
+    const double w = 2 * std::numbers::pi / period_;
+    double x = std::fmod(t - PulseStart(v.gate()), period_);
+    if (x < 0) x += period_;
+    // The pulse includes its own start instant, whatever rounding did to t.
+    const double slack = 1e-9 * period_;
+    return x < f.width / w || x > period_ - slack;
+  }
+
+  // May valve k turn on now? Diodes always; thyristors while their gate
+  // pulse is on or while they have not recovered.
+  bool Armed(int k, double t) const {
+    const Valve& v = *valves_[k].valve;
+    if (v.type() != Valve::Type::kThyristor) return true;
+    return GateActive(v, t) || t < recover_until_[k];
+  }
+
+  // IDA stops at the end of the run and at every gate pulse start; the
+  // next one is re-armed from wherever the run now is (an event may have
+  // carried it past a pulse start, which Settle() has then covered).
+  void ArmStopTime(double t) {
+    if (next_gate_edge_ <= t) next_gate_edge_ = NextGateEdge(t);
+    Check(IDASetStopTime(ida_.get(), std::min(t_end_, next_gate_edge_)), "IDASetStopTime");
+  }
+
+  // The first gate pulse start after t.
+  double NextGateEdge(double t) const {
+    double next = std::numeric_limits<double>::infinity();
+    if (period_ <= 0) return next;
+    for (const auto& ref : valves_) {
+      const Valve& v = *ref.valve;
+      if (v.type() != Valve::Type::kThyristor || v.gate().firing < 0) continue;
+      const double start = PulseStart(v.gate());
+      double edge = start + std::ceil((t - start) / period_ + 1e-9) * period_;
+      if (edge <= t) edge += period_;
+      next = std::min(next, edge);
+    }
+    return next;
   }
 
   // "B1[1], B1[3]": the distinct names of the valves with these indices.
@@ -461,8 +585,10 @@ class Run {
         s.steady_reached = true;
         s.steady_time = next_boundary_;
         t_end_ = std::min(study_.simulate->stop, next_boundary_ + study_.steady->cycles * period_);
-        if (t_end_ > t) Check(IDASetStopTime(ida_.get(), t_end_), "IDASetStopTime");
-        else t_end_ = t;
+        if (t_end_ <= t) t_end_ = t;
+        // A gate pulse due now is handled (and the stop time re-armed) by
+        // the main loop right after this.
+        else if (next_gate_edge_ > t) ArmStopTime(t);
       }
       previous_state_ = x;
       for (std::size_t i = 0; i < x.size(); ++i) cycle_peak_[i] = std::abs(x[i]);
@@ -544,7 +670,7 @@ class Run {
     for (std::size_t k = 0; k < run->valves_.size(); ++k) {
       const Valve& v = *run->valves_[k].valve;
       if (run->states_[v.switch_slot()]) {
-        const double i = v.Current(y);
+        const double i = v.Current(y) - v.params().i_h;
         g[2 * k] = i;
         g[2 * k + 1] = i + run->eps_i_;
       } else {
@@ -591,6 +717,10 @@ class Run {
   double period_ = 0.0;
   double t_end_ = 0.0;
   double t_restart_ = 0.0;  // where IDA was last (re)initialised
+  double next_gate_edge_ = std::numeric_limits<double>::infinity();
+  std::vector<double> recover_until_;    // per valve: end of its recovery (tq)
+  std::vector<double> t_off_;            // per valve: last turn-off
+  std::vector<char> awaiting_forward_;   // per valve: extinction interval still open
   long next_sample_ = 0;
   double next_boundary_ = 0.0;
   std::vector<double> previous_state_, cycle_peak_;

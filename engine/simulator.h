@@ -87,9 +87,24 @@ struct EngineOptions {
 
 // One valve or switch changing state.
 struct SwitchEvent {
+  enum class Cause {
+    kNatural,          // a diode's own root, or settling after an event
+    kGate,             // a thyristor fired by its gate pulse
+    kTurnOff,          // the current fell through zero (or Ih)
+    kRecoveryFailure,  // forward voltage within tq re-fired it: a commutation failure
+  };
   double t = 0.0;
   int device = -1;  // index into Circuit::devices()
   bool on = false;
+  Cause cause = Cause::kNatural;
+};
+
+// A blocking thyristor's voltage turning positive for the first time after
+// its turn-off: the end of its extinction interval.
+struct ForwardVoltageEvent {
+  double t = 0.0;
+  int device = -1;
+  double t_off = 0.0;  // when it last turned off
 };
 
 // Receives the uniformly spaced output samples.
@@ -142,6 +157,8 @@ struct RunSummary {
 struct RunResult {
   RunSummary summary;
   std::vector<SwitchEvent> events;
+  std::vector<ForwardVoltageEvent> forward_voltage;
+  std::vector<double> firing_reference;  // per firing element: valve 1's natural instant in [0, T) (s)
 };
 
 // Simulates `circuit` as `study` says, streaming samples to `sink`.

@@ -31,6 +31,20 @@ struct ValveGroup {
   SourceLoc loc;
 };
 
+// A firing element: six gate pulse trains, pulse k starting alpha after
+// the natural commutation instant of valve k of the bridge it drives (or,
+// driving no bridge, of an ideal bridge on the sync supply's EMF), each
+// `width` long. Angles in radians.
+struct Firing {
+  std::string name;
+  SourceLoc loc;
+  double alpha = 0.0;
+  double width = 0.0;
+  std::string sync;       // the supply whose EMF is the ideal reference
+  int supply_phase_device = -1;  // that supply's phase-a branch (a device index)
+  int group = -1;         // the bridge (valve group) it drives, -1 if none
+};
+
 class Circuit {
  public:
   Circuit();
@@ -53,6 +67,12 @@ class Circuit {
   void AddAlias(const std::string& name, DeviceAlias alias) { aliases_[name] = alias; }
   void AddValveGroup(ValveGroup group) { valve_groups_.push_back(std::move(group)); }
   const std::vector<ValveGroup>& valve_groups() const { return valve_groups_; }
+  int AddFiring(Firing f) {
+    firings_.push_back(std::move(f));
+    return static_cast<int>(firings_.size()) - 1;
+  }
+  std::vector<Firing>& firings() { return firings_; }
+  const std::vector<Firing>& firings() const { return firings_; }
   const DeviceAlias* FindAlias(const std::string& name) const;
 
   // Numbers unknowns and switch slots. Call once, after the last Add().
@@ -70,6 +90,7 @@ class Circuit {
   std::map<std::string, const Device*> device_index_;
   std::map<std::string, DeviceAlias> aliases_;
   std::vector<ValveGroup> valve_groups_;
+  std::vector<Firing> firings_;
   std::set<int> star_points_;
   int num_unknowns_ = 0;
   int num_switch_slots_ = 0;

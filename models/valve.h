@@ -13,6 +13,11 @@
 //   off → on  when v_a − v_k rises through Vf.
 // The engine locates both as roots, with a backstop root offset by a small
 // hysteresis ε (see engine/simulator.h).
+// A thyristor switches like a diode, except that it turns on only while its
+// gate pulse is on or while it is still recovering: for tq after its
+// current fell through the holding current Ih it blocks no forward voltage,
+// and a forward voltage then re-fires it without a gate pulse (a
+// commutation failure in inverter operation).
 // A switch (natural = false) changes state only when commanded.
 #pragma once
 
@@ -24,22 +29,35 @@ struct ValveParams {
   double r_on = 1e-3;   // ohm
   double r_off = 1e9;   // ohm
   double v_f = 0.0;     // V, forward drop while on
+  double i_h = 0.0;     // A, holding current (thyristors)
+  double t_q = 0.0;     // s, turn-off (recovery) time (thyristors)
+};
+
+// Which gate pulse train drives a thyristor: firing element `firing`
+// (an index into Circuit::firings()), pulse `pulse` (1..6).
+struct GateRef {
+  int firing = -1;
+  int pulse = 0;
 };
 
 class Valve final : public Device {
  public:
-  enum class Type { kDiode, kSwitch };
+  enum class Type { kDiode, kThyristor, kSwitch };
 
   Valve(std::string name, SourceLoc loc, int anode, int cathode, Type type, ValveParams params,
-        bool initially_on = false)
+        bool initially_on = false, GateRef gate = {})
       : Device(std::move(name), std::move(loc), {anode, cathode}),
-        type_(type), p_(params), initially_on_(initially_on) {}
+        type_(type), p_(params), initially_on_(initially_on), gate_(gate) {}
 
-  const char* kind_name() const override { return type_ == Type::kDiode ? "diode" : "switch"; }
+  const char* kind_name() const override {
+    return type_ == Type::kDiode ? "diode" : type_ == Type::kThyristor ? "thyristor" : "switch";
+  }
+  Type type() const { return type_; }
+  const GateRef& gate() const { return gate_; }
   TopologyRole role() const override { return TopologyRole::kResistive; }
   int num_branches() const override { return 1; }
   bool has_switch_state() const override { return true; }
-  bool natural() const override { return type_ == Type::kDiode; }
+  bool natural() const override { return type_ != Type::kSwitch; }
   bool initially_on() const override { return initially_on_; }
   const ValveParams& params() const { return p_; }
 
@@ -63,6 +81,7 @@ class Valve final : public Device {
   Type type_;
   ValveParams p_;
   bool initially_on_;
+  GateRef gate_;
 };
 
 }  // namespace lcc

@@ -167,7 +167,7 @@ class Elaborator {
     if (kw == "probe") return ProbeStatement(s, file);
     if (kw == "simulate" || kw == "steady") return StudyStatement(s, file);
     if (const KindSpec* kind = FindElementKind(kw)) return Element(*kind, s, file);
-    static const std::set<std::string> kLater{"case", "sweep", "define", "thyristor", "firing", "at", "set"};
+    static const std::set<std::string> kLater{"case", "sweep", "define", "at", "set"};
     if (kLater.count(kw)) {
       Error(file, s.keyword.offset, fmt::format("'{}' is not supported by this version", kw));
       return;
@@ -378,13 +378,53 @@ class Elaborator {
       c.Add(std::make_unique<Valve>(name, loc, node(ports[0]), node(ports[1]), Valve::Type::kSwitch,
                                     p, set.words["state"] != "open"));
     } else if (kind.name == "diode") {
-      ValveParams p{set.number("Ron", 1e-3), set.number("Roff", 1e9), set.number("Vf")};
+      ValveParams p = ValveParamsOf(set);
       if (!CheckValveParams(p, set, file)) return;
       c.Add(std::make_unique<Valve>(name, loc, node(ports[0]), node(ports[1]), Valve::Type::kDiode, p));
     } else if (kind.name == "supply") {
       Supply(name, loc, ports, set, s, file);
     } else if (kind.name == "bridge") {
       Bridge(name, loc, set, s, file);
+    } else if (kind.name == "thyristor") {
+      const std::string& gate = set.words.at("gate");
+      const auto open = gate.find('[');
+      const std::string firing = gate.substr(0, open);
+      const int pulse = open == std::string::npos ? 0 : std::atoi(gate.c_str() + open + 1);
+      auto it = firings_.find(firing);
+      if (it == firings_.end() || pulse < 1 || pulse > 6) {
+        diags_.Error(set.where.at("gate"),
+                     it == firings_.end() ? fmt::format("no firing element named '{}' (define it before)", firing)
+                                          : fmt::format("gate {} has no pulse train: use {}[1] .. {}[6]", gate, firing, firing));
+        return;
+      }
+      ValveParams p = ValveParamsOf(set);
+      if (!CheckValveParams(p, set, file)) return;
+      c.Add(std::make_unique<Valve>(name, loc, node(ports[0]), node(ports[1]), Valve::Type::kThyristor, p, false,
+                                    GateRef{it->second, pulse}));
+    } else if (kind.name == "firing") {
+      const std::string& sync = set.words.at("sync");
+      const Device* phase_a = c.FindDevice(sync + ".a");
+      if (!phase_a || std::string(phase_a->kind_name()) != "source_branch") {
+        diags_.Error(set.where.at("sync"), fmt::format("'{}' is not a supply (define the supply before)", sync));
+        return;
+      }
+      const double lo = set.number("alpha_min"), hi = set.number("alpha_max");
+      if (lo > hi) {
+        Error(file, s.name->offset, "alpha_min is larger than alpha_max");
+        return;
+      }
+      Firing f;
+      f.name = name;
+      f.loc = loc;
+      f.alpha = std::clamp(set.number("alpha"), lo, hi);
+      f.width = set.number("width");
+      f.sync = sync;
+      for (std::size_t k = 0; k < c.devices().size(); ++k)
+        if (c.devices()[k].get() == phase_a) f.supply_phase_device = static_cast<int>(k);
+      if (f.alpha != set.number("alpha"))
+        diags_.Warning(set.has("alpha") ? set.where.at("alpha") : loc,
+                       fmt::format("alpha limited to {:.4g} deg by alpha_min/alpha_max", f.alpha * 180 / std::numbers::pi));
+      firings_[name] = c.AddFiring(f);
     } else if (kind.name == "core") {
       auto& core = static_cast<Core&>(c.Add(std::make_unique<Core>(name, loc, set.number("Lm"), set.number("Rc"), 0.0)));
       cores_[name] = {&core, set.words.count("ref") ? set.words.at("ref") : "", set.has("ref") ? set.where.at("ref") : loc};
@@ -522,6 +562,10 @@ class Elaborator {
     return w;
   }
 
+  static ValveParams ValveParamsOf(const Settings& set) {
+    return {set.number("Ron", 1e-3), set.number("Roff", 1e9), set.number("Vf"), set.number("Ih"), set.number("tq")};
+  }
+
   bool CheckValveParams(const ValveParams& p, const Settings& set, const FilePtr& file) {
     if (p.r_off <= p.r_on) {
       SourceLoc at = set.has("Roff") ? set.where.at("Roff") : set.has("Ron") ? set.where.at("Ron") : SourceLoc{file, 0};
@@ -600,9 +644,33 @@ class Elaborator {
       Error(file, s.name->offset, "give both snubber_R and snubber_C, or neither");
       return;
     }
-    ValveParams p{set.number("Ron", 1e-3), set.number("Roff", 1e9), set.number("Vf")};
+    ValveParams p = ValveParamsOf(set);
     if (!CheckValveParams(p, set, file)) return;
     Circuit& c = design_.circuit;
+    const bool thyristor = set.words.at("valve") == "thyristor";
+    int firing = -1;
+    if (thyristor) {
+      if (!set.words.count("firing")) {
+        Error(file, s.name->offset, fmt::format("bridge {} of thyristors needs firing = FIRING", name));
+        return;
+      }
+      auto it = firings_.find(set.words.at("firing"));
+      if (it == firings_.end()) {
+        diags_.Error(set.where.at("firing"),
+                     fmt::format("no firing element named '{}' (define it before the bridge)", set.words.at("firing")));
+        return;
+      }
+      firing = it->second;
+      if (c.firings()[firing].group >= 0) {
+        diags_.Error(set.where.at("firing"), fmt::format("firing {} already drives a bridge", it->first),
+                     "each bridge needs its own firing element, referred to its own voltages");
+        return;
+      }
+      c.firings()[firing].group = static_cast<int>(c.valve_groups().size());
+    } else if (set.words.count("firing")) {
+      diags_.Error(set.where.at("firing"), "a bridge of diodes has no firing");
+      return;
+    }
     auto node = [&](const ast::Ident& id) { return c.Node(id.name, SourceLoc{file, id.offset}); };
     const auto& ac = set.nodes.at("ac");
     const auto& dc = set.nodes.at("dc");
@@ -613,7 +681,9 @@ class Elaborator {
     for (int k = 0; k < 6; ++k) {
       const std::string vname = fmt::format("{}[{}]", name, k + 1);
       group.devices.push_back(static_cast<int>(c.devices().size()));
-      c.Add(std::make_unique<Valve>(vname, loc, anode[k], cathode[k], Valve::Type::kDiode, p));
+      c.Add(std::make_unique<Valve>(vname, loc, anode[k], cathode[k],
+                                    thyristor ? Valve::Type::kThyristor : Valve::Type::kDiode, p, false,
+                                    thyristor ? GateRef{firing, k + 1} : GateRef{}));
       if (set.has("snubber_R")) {
         const int mid = c.Node(vname + ".snubber", loc);
         c.Add(std::make_unique<Resistor>(vname + ".snubber_R", loc, anode[k], mid, set.number("snubber_R")));
@@ -685,7 +755,7 @@ class Elaborator {
       }
       const auto& expr = boost::get<ast::Expr>(setting.value);
       if (spec->type == KeyType::kName) {
-        auto id = SingleName(expr);
+        auto id = SingleName(expr, /*allow_index=*/true);
         if (!id) {
           Error(file, expr.offset, fmt::format("{} needs a name", key));
           ok = false;
@@ -746,19 +816,22 @@ class Elaborator {
     return ok;
   }
 
-  static std::optional<ast::Ident> SingleName(const ast::Expr& e) {
+  // The name an expression consists of, if it is just one: `F`, or with
+  // allow_index also `F[3]` (returned as the text "F[3]").
+  static std::optional<ast::Ident> SingleName(const ast::Expr& e, bool allow_index = false) {
     if (!e.rest.empty()) return std::nullopt;
     if (e.first.get().type() == typeid(ast::Path)) {
       const auto& p = boost::get<ast::Path>(e.first);
-      if (p.parts.size() == 1 && p.parts[0].index < 0) {
+      if (p.parts.size() == 1 && (p.parts[0].index < 0 || allow_index)) {
         ast::Ident id;
         id.offset = p.offset;
         id.name = p.parts[0].name;
+        if (p.parts[0].index >= 0) id.name += fmt::format("[{}]", p.parts[0].index);
         return id;
       }
     }
     if (e.first.get().type() == typeid(ast::x3::forward_ast<ast::Expr>))
-      return SingleName(boost::get<ast::x3::forward_ast<ast::Expr>>(e.first).get());
+      return SingleName(boost::get<ast::x3::forward_ast<ast::Expr>>(e.first).get(), allow_index);
     return std::nullopt;
   }
 
@@ -933,6 +1006,7 @@ class Elaborator {
     std::vector<Winding*> windings;
   };
   std::map<std::string, CoreUse> cores_;
+  std::map<std::string, int> firings_;  // firing name → index in Circuit::firings()
 };
 
 }  // namespace

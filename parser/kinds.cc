@@ -1,5 +1,7 @@
 #include "parser/kinds.h"
 
+#include <numbers>
+
 namespace lcc {
 namespace {
 
@@ -62,6 +64,13 @@ std::vector<KeySpec> SourceKeys(Dim dim) {
   };
 }
 
+std::vector<KeySpec> ThyristorKeys() {
+  return {
+      Num("Ih", dims::kCurrent, 0.0, kNonNeg, "holding current: below it the thyristor turns off"),
+      Num("tq", dims::kTime, 0.0, kNonNeg, "turn-off time: forward voltage sooner re-fires it without a gate pulse"),
+  };
+}
+
 std::vector<KeySpec> ValveKeys() {
   return {
       Num("Ron", dims::kResistance, 1e-3, kPos, "on-state resistance"),
@@ -115,6 +124,19 @@ const std::vector<KindSpec>& ElementKinds() {
       kinds.push_back({"switch", {"a", "b"}, keys, "a switch held open or closed"});
     }
     kinds.push_back({"diode", {"anode", "cathode"}, ValveKeys(), "a diode valve"});
+    {
+      std::vector<KeySpec> keys = {Name("gate", true, "the gate pulse train driving it: FIRING[k]")};
+      for (auto& k : ValveKeys()) keys.push_back(k);
+      for (auto& k : ThyristorKeys()) keys.push_back(k);
+      kinds.push_back({"thyristor", {"anode", "cathode"}, keys, "a thyristor valve"});
+    }
+    kinds.push_back({"firing", {},
+                     {Name("sync", true, "the supply whose EMF is the ideal timing reference"),
+                      Angle("alpha", 0.0, "delay angle after the natural commutation instant"),
+                      Angle("width", 2.0 * std::numbers::pi / 3.0, "gate pulse width"),
+                      Angle("alpha_min", 0.0, "smallest delay angle allowed"),
+                      Angle("alpha_max", std::numbers::pi, "largest delay angle allowed")},
+                     "the six gate pulse trains of a bridge"});
     kinds.push_back({"core", {},
                      {Num("Lm", dims::kInductance, std::nullopt, kPos, "magnetising inductance, referred to the reference winding", true),
                       Num("Rc", dims::kResistance, std::nullopt, kPos, "core-loss resistance across the reference winding (default: lossless, 1e4 × ωLm)"),
@@ -145,9 +167,11 @@ const std::vector<KindSpec>& ElementKinds() {
       std::vector<KeySpec> keys = {
           Nodes("ac", 3, true, "the AC terminals (a, b, c)"),
           Nodes("dc", 2, true, "the DC terminals (p, n)"),
-          Word("valve", {"diode"}, "diode", "valve kind"),
+          Word("valve", {"diode", "thyristor"}, "diode", "valve kind"),
+          Name("firing", false, "the firing element driving its thyristors"),
       };
       for (auto& k : ValveKeys()) keys.push_back(k);
+      for (auto& k : ThyristorKeys()) keys.push_back(k);
       keys.push_back(Num("snubber_R", dims::kResistance, std::nullopt, kPos, "RC snubber resistance across each valve"));
       keys.push_back(Num("snubber_C", dims::kCapacitance, std::nullopt, kPos, "RC snubber capacitance across each valve"));
       kinds.push_back({"bridge", {}, keys, "a six-pulse (Graetz) bridge of six valves"});

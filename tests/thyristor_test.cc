@@ -1,0 +1,104 @@
+// Thyristor bridges at constant Id behind a supply inductance Ls:
+//   Vd = Vdo·cos α − 3ωLs·Id/π,   cos(α + μ) = cos α − 2ωLs·Id/(√2·VLL)
+// (Mohan, Undeland & Robbins, Power Electronics, 3rd ed., §6-4; check-values
+// 2.1-2.2), and in inverter operation the extinction angle
+//   γ = 180° − α − μ
+// (Arrillaga, HVDC Transmission, 2nd ed., ch. 3; check-values 2.7). A valve
+// given a turn-off time tq longer than γ/ω cannot block the forward voltage
+// that follows and re-fires: a commutation failure (check-values 2.8; Thio,
+// Davies & Kent, IEEE TPWRD 11(2), 1996).
+#include <catch2/catch.hpp>
+
+#include <cmath>
+#include <numbers>
+
+#include "results/commutation.h"
+#include "results/events.h"
+#include "tests/test_utilities/run_netlist.h"
+
+namespace lcc {
+namespace {
+
+constexpr double kVll = 400.0, kId = 100.0, kF = 50.0;
+const double kW = 2 * std::numbers::pi * kF;
+const double kVdo = 3.0 * std::sqrt(2.0) / std::numbers::pi * kVll;
+constexpr double kDeg = 180.0 / std::numbers::pi;
+
+std::string ThyristorBridge(double alpha_deg, double ls_mh, const std::string& extra = "") {
+  return "supply Grid (a, b, c) Vll = 400 V f = 50 Hz R = 0 ohm L = " + std::to_string(ls_mh) + R"( mH
+firing F sync = Grid alpha = )" + std::to_string(alpha_deg) + R"( deg
+bridge B1 ac = (a, b, c) dc = (p, n) valve = thyristor firing = F Ron = 1 uohm )" + extra + R"(
+current_source Iload (n, p) dc = 100 A
+simulate stop = 300 ms
+steady cycles = 2
+probe Vd = p - n
+)";
+}
+
+TEST_CASE("ThyristorBridgeFollowsTheControlledRectifierClosedForms", "[thyristor][bridge][analytic]") {
+  const double ls = 1e-3;
+  for (double alpha_deg : {0.0, 15.0, 30.0, 45.0, 60.0, 75.0}) {
+    SECTION("alpha " + std::to_string(static_cast<int>(alpha_deg))) {
+      const double a = alpha_deg / kDeg;
+      const double vd = kVdo * std::cos(a) - 3 * kW * ls * kId / std::numbers::pi;
+      const double mu = std::acos(std::cos(a) - 2 * kW * ls * kId / (std::sqrt(2.0) * kVll)) - a;
+      auto c = testing::Simulate(ThyristorBridge(alpha_deg, 1.0));
+      const double vd_sim = c.Window("Vd").mean;
+      INFO("alpha " << alpha_deg << ": Vd " << vd_sim << " (closed form " << vd << ")");
+      REQUIRE(std::abs(vd_sim - vd) / std::abs(vd) < 0.003);
+      auto list = BridgeCommutations(c.design->circuit.valve_groups()[0], c.run.events, kF,
+                                     c.run.summary.window_begin, c.run.summary.window_end);
+      REQUIRE(list.size() >= 11);
+      for (const auto& m : list) {
+        INFO("mu " << m.overlap * kDeg << " deg (closed form " << mu * kDeg << ")");
+        REQUIRE(std::abs(m.overlap - mu) * kDeg < 0.3);
+      }
+    }
+  }
+}
+
+TEST_CASE("InverterExtinctionAngleIs180MinusAlphaMinusOverlap", "[thyristor][bridge][inverter][analytic]") {
+  const double ls = 0.5e-3;
+  for (double alpha_deg : {140.0, 145.0, 150.0, 155.0}) {
+    SECTION("alpha " + std::to_string(static_cast<int>(alpha_deg))) {
+      const double a = alpha_deg / kDeg;
+      const double delta = std::acos(std::cos(a) - 2 * kW * ls * kId / (std::sqrt(2.0) * kVll));
+      const double gamma = std::numbers::pi - delta;  // 180° − α − μ
+      auto c = testing::Simulate(ThyristorBridge(alpha_deg, 0.5));
+      REQUIRE(c.Window("Vd").mean < 0);  // inverting
+      const auto rows = EventLog(c.design->circuit, c.run, kF);
+      int checked = 0;
+      for (const auto& r : rows) {
+        REQUIRE(r.event != "commutation_failure");
+        if (r.event != "forward_voltage" || r.t < c.run.summary.window_begin) continue;
+        INFO("alpha " << alpha_deg << ": gamma " << r.extinction_deg << " deg (closed form " << gamma * kDeg << ")");
+        REQUIRE(std::abs(r.extinction_deg - gamma * kDeg) < 0.3);
+        ++checked;
+      }
+      REQUIRE(checked >= 11);
+    }
+  }
+}
+
+TEST_CASE("ATurnOffTimeLongerThanTheExtinctionIntervalCausesCommutationFailure",
+          "[thyristor][inverter]") {
+  // At α = 150°, Ls = 0.5 mH: γ ≈ 23°, i.e. about 1.3 ms at 50 Hz.
+  SECTION("tq = 0.5 ms: the valves recover in time") {
+    auto c = testing::Simulate(ThyristorBridge(150.0, 0.5, "tq = 0.5 ms"));
+    for (const auto& r : EventLog(c.design->circuit, c.run, kF)) REQUIRE(r.event != "commutation_failure");
+  }
+  SECTION("tq = 2 ms: forward voltage within tq re-fires a valve") {
+    auto c = testing::Simulate(ThyristorBridge(150.0, 0.5, "tq = 2 ms"));
+    int failures = 0;
+    for (const auto& r : EventLog(c.design->circuit, c.run, kF)) {
+      if (r.event != "commutation_failure") continue;
+      ++failures;
+      INFO("failure of " << r.valve << " at " << r.t << " s after gamma = " << r.extinction_deg << " deg");
+      REQUIRE(r.extinction_deg < 2e-3 * 360 * kF);  // forward voltage came before tq elapsed
+    }
+    REQUIRE(failures > 0);
+  }
+}
+
+}  // namespace
+}  // namespace lcc
