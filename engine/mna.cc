@@ -98,7 +98,10 @@ MnaSystem::MnaSystem(const Circuit& circuit, const LuOptions& lu) : circuit_(cir
 }
 
 void MnaSystem::SetSwitchStates(const std::vector<std::uint8_t>& states) {
+  if (states == states_ && consistency_factored_) return;  // G unchanged: keep the factorisations
   states_ = states;
+  consistency_factored_ = false;
+  step_factored_h_ = 0.0;
   std::fill(g_values_.begin(), g_values_.end(), 0.0);
   ValueSink sink(g_slot_, c_slot_, g_values_.data(), nullptr);
   for (const auto& d : circuit_.devices()) {
@@ -147,10 +150,13 @@ bool MnaSystem::SolveConsistent(double t, double* y, double* yp, std::string* er
       }
     }
   }
-  response_valid_ = false;
-  if (!consistency_lu_->Factorize(m)) {
-    *error = fmt::format("the circuit equations are singular at t = {:.9g} s in the present valve states", t);
-    return false;
+  if (!consistency_factored_) {
+    response_valid_ = false;
+    if (!consistency_lu_->Factorize(m)) {
+      *error = fmt::format("the circuit equations are singular at t = {:.9g} s in the present valve states", t);
+      return false;
+    }
+    consistency_factored_ = true;
   }
   Eigen::VectorXd z(n_);
   consistency_lu_->Solve(rhs.data(), z.data());
@@ -186,9 +192,12 @@ bool MnaSystem::BackwardEulerStep(double t, double h, double* y, std::string* er
       rhs[inner[p]] += c_values_[p] / h * y[col];
     }
   }
-  if (!step_lu_->Factorize(m.data())) {
-    *error = fmt::format("the circuit equations are singular at t = {:.9g} s in the present valve states", t);
-    return false;
+  if (step_factored_h_ != h) {
+    if (!step_lu_->Factorize(m.data())) {
+      *error = fmt::format("the circuit equations are singular at t = {:.9g} s in the present valve states", t);
+      return false;
+    }
+    step_factored_h_ = h;
   }
   step_lu_->Solve(rhs.data(), y);
   return true;

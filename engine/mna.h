@@ -98,6 +98,10 @@ class MnaSystem {
   bool response_valid_ = false;
   std::unique_ptr<LuSolver> consistency_lu_;
   std::unique_ptr<LuSolver> step_lu_;
+  // The factorisations depend only on the switch states (and the step h):
+  // they are redone only when those change.
+  bool consistency_factored_ = false;
+  double step_factored_h_ = 0.0;
 };
 
 }  // namespace lcc
