@@ -177,6 +177,17 @@ class Run {
       }
     }
     ComputeFiringReferences();
+    for (const auto& f : circuit_.firings()) {
+      alpha_now_.push_back(f.alpha);
+      integral_.push_back(0.0);
+      last_regulation_.push_back(0.0);
+      if (f.regulate_probe >= 0) {
+        regulated_integral_.assign(circuit_.firings().size(), 0.0);
+        last_regulated_value_.assign(circuit_.firings().size(), 0.0);
+      }
+    }
+    result_.final_alpha = alpha_now_;
+    previous_alpha_ = alpha_now_;
     recover_until_.assign(valves_.size(), -1.0);
     t_off_.assign(valves_.size(), -1.0);
     awaiting_forward_.assign(valves_.size(), 0);
@@ -241,6 +252,7 @@ class Run {
         return;
       }
       t = tret;
+      AccumulateRegulated(t);
       EmitSamples(std::min(t, t_end_), dt);
       TrackCycles(t);
       result_.summary.t_reached = t;
@@ -254,9 +266,17 @@ class Run {
       }
       if (t >= t_end_) break;
       if (flag == IDA_TSTOP_RETURN && t >= next_gate_edge_) {
-        // A gate pulse starts: fire the thyristors it finds forward biased.
+        // A gate pulse starts: the thyristors found gated and forward biased
+        // fire, then the regulators take their sample and set the delay of
+        // the pulses to come (not of the one that just started).
         next_gate_edge_ = NextGateEdge(t);
         if (!HandleEvent(t, {})) return;
+        if (Regulate(t)) {
+          // A pulse whose start the new delay moved to just before now is
+          // on already: fire its valve if it is forward biased.
+          next_gate_edge_ = NextGateEdge(t);
+          if (!HandleEvent(t, {})) return;
+        }
         ArmStopTime(t);
       }
     }
@@ -440,7 +460,8 @@ class Run {
   double PulseStart(const GateRef& g) const {
     const Firing& f = circuit_.firings()[g.firing];
     const double w = 2 * std::numbers::pi / period_;
-    return result_.firing_reference[g.firing] + (g.pulse - 1) * period_ / 6 + f.alpha / w;
+    (void)f;
+    return result_.firing_reference[g.firing] + (g.pulse - 1) * period_ / 6 + alpha_now_[g.firing] / w;
   }
 
   bool GateActive(const Valve& v, double t) const {
@@ -460,6 +481,53 @@ class Run {
     const Valve& v = *valves_[k].valve;
     if (v.type() != Valve::Type::kThyristor) return true;
     return GateActive(v, t) || t < recover_until_[k];
+  }
+
+  // Sampled PI regulators (see Firing in models/circuit.h).
+  // Returns true if some delay angle changed.
+  bool Regulate(double t) {
+    bool changed = false;
+    const auto& firings = circuit_.firings();
+    const double* y = N_VGetArrayPointer(y_.get());
+    const double* yp = N_VGetArrayPointer(yp_.get());
+    for (std::size_t f = 0; f < firings.size(); ++f) {
+      const Firing& fr = firings[f];
+      if (fr.regulate_probe < 0) continue;
+      const double dt = t - last_regulation_[f];
+      last_regulation_[f] = t;
+      // The measurement is the probe's mean since the last sample (a
+      // synchronously sampled average, as drive controllers measure), not
+      // its instantaneous value, which carries the six-pulse ripple.
+      const double measured = dt > 0 ? regulated_integral_[f] / dt
+                                     : EvaluateProbe(study_.probes[fr.regulate_probe], y, yp);
+      regulated_integral_[f] = 0.0;
+      const double error = fr.target - measured;
+      const double unlimited = fr.alpha - fr.kp * error - fr.ki * (integral_[f] + error * dt);
+      // Anti-windup: the integral moves only while the output is not limited
+      // in the direction the error pushes it.
+      if (unlimited > fr.alpha_min && unlimited < fr.alpha_max) integral_[f] += error * dt;
+      const double alpha = std::clamp(fr.alpha - fr.kp * error - fr.ki * integral_[f], fr.alpha_min, fr.alpha_max);
+      changed |= alpha != alpha_now_[f];
+      alpha_now_[f] = alpha;
+    }
+    result_.final_alpha = alpha_now_;
+    return changed;
+  }
+
+  // Adds ∫probe dt over the step just taken (trapezoid rule on the step's
+  // end values) for every regulated probe.
+  void AccumulateRegulated(double t_new) {
+    const auto& firings = circuit_.firings();
+    if (regulated_integral_.empty()) return;
+    const double* y = N_VGetArrayPointer(y_.get());
+    const double* yp = N_VGetArrayPointer(yp_.get());
+    for (std::size_t f = 0; f < firings.size(); ++f) {
+      if (firings[f].regulate_probe < 0) continue;
+      const double value = EvaluateProbe(study_.probes[firings[f].regulate_probe], y, yp);
+      if (t_new > last_step_time_) regulated_integral_[f] += 0.5 * (value + last_regulated_value_[f]) * (t_new - last_step_time_);
+      last_regulated_value_[f] = value;
+    }
+    last_step_time_ = t_new;
   }
 
   // IDA stops at the end of the run and at every gate pulse start; the
@@ -578,7 +646,15 @@ class Run {
         const double e = (x[i] - previous_state_[i]) / w;
         sum += e * e;
       }
-      const double wrms = x.empty() ? 0.0 : std::sqrt(sum / static_cast<double>(x.size()));
+      // The regulators' delay angles are states too: a loop still settling
+      // is not a steady state.
+      for (std::size_t f = 0; f < alpha_now_.size(); ++f) {
+        const double e = (alpha_now_[f] - previous_alpha_[f]) / (study_.steady->tol * std::numbers::pi);
+        sum += e * e;
+      }
+      previous_alpha_ = alpha_now_;
+      const std::size_t count = x.size() + alpha_now_.size();
+      const double wrms = count == 0 ? 0.0 : std::sqrt(sum / static_cast<double>(count));
       agreeing_cycles_ = wrms <= 1.0 ? agreeing_cycles_ + 1 : 0;
       if (agreeing_cycles_ >= 2) {
         auto& s = result_.summary;
@@ -719,11 +795,18 @@ class Run {
   double t_restart_ = 0.0;  // where IDA was last (re)initialised
   double next_gate_edge_ = std::numeric_limits<double>::infinity();
   std::vector<double> recover_until_;    // per valve: end of its recovery (tq)
+  std::vector<double> alpha_now_;        // per firing: the delay angle in force (rad)
+  std::vector<double> integral_;         // per firing: ∫e dt of its regulator (A·s)
+  std::vector<double> last_regulation_;  // per firing: time of its last sample
+  std::vector<double> regulated_integral_;    // per firing: ∫probe dt since its last sample
+  std::vector<double> last_regulated_value_;  // per firing: the probe at the last step
+  double last_step_time_ = 0.0;
   std::vector<double> t_off_;            // per valve: last turn-off
   std::vector<char> awaiting_forward_;   // per valve: extinction interval still open
   long next_sample_ = 0;
   double next_boundary_ = 0.0;
   std::vector<double> previous_state_, cycle_peak_;
+  std::vector<double> previous_alpha_;  // delay angles at the last cycle boundary
   int agreeing_cycles_ = 0;
 
   const bool wants_derivatives_ = sink_.wants_derivatives();

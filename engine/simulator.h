@@ -159,6 +159,7 @@ struct RunResult {
   std::vector<SwitchEvent> events;
   std::vector<ForwardVoltageEvent> forward_voltage;
   std::vector<double> firing_reference;  // per firing element: valve 1's natural instant in [0, T) (s)
+  std::vector<double> final_alpha;       // per firing element: the delay angle at the end (rad)
 };
 
 // Simulates `circuit` as `study` says, streaming samples to `sink`.

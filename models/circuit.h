@@ -43,6 +43,18 @@ struct Firing {
   std::string sync;       // the supply whose EMF is the ideal reference
   int supply_phase_device = -1;  // that supply's phase-a branch (a device index)
   int group = -1;         // the bridge (valve group) it drives, -1 if none
+
+  // Current regulation (a DC drive's or an HVDC rectifier's current loop):
+  // at every gate pulse start the probe is sampled and
+  //   alpha = alpha₀ − kp·e − ki·∫e dt,   e = target − probe,
+  // limited to [alpha_min, alpha_max], the integral held while limited.
+  std::string regulate;   // probe name; empty: constant alpha
+  int regulate_probe = -1;  // index into Study::probes once resolved
+  double target = 0.0;    // A
+  double kp = 0.0;        // rad/A
+  double ki = 0.0;        // rad/(A·s)
+  double alpha_min = 0.0;
+  double alpha_max = 3.141592653589793;
 };
 
 class Circuit {

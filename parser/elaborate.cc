@@ -142,6 +142,19 @@ class Elaborator {
     // Probes refer to unknowns by index: number them first.
     design_.circuit.Finalize();
     for (const auto& p : probes_) CompileProbe(p);
+    // Regulating firing elements sample a probe: resolve its name.
+    for (const auto& [index, where] : regulated_) {
+      Firing& f = design_.circuit.firings()[index];
+      const auto& probes = design_.study.probes;
+      for (std::size_t k = 0; k < probes.size(); ++k)
+        if (probes[k].name == f.regulate) f.regulate_probe = static_cast<int>(k);
+      if (f.regulate_probe < 0) {
+        diags_.Error(where, fmt::format("no probe named '{}' to regulate", f.regulate),
+                     "define it with: probe NAME = ELEMENT.i");
+      } else if (!(probes[f.regulate_probe].dim == dims::kCurrent)) {
+        diags_.Error(where, fmt::format("probe '{}' is not a current", f.regulate));
+      }
+    }
     if (design_.study.steady && design_.study.steady->frequency == 0.0) {
       if (design_.study.fundamental > 0) {
         design_.study.steady->frequency = design_.study.fundamental;
@@ -419,6 +432,19 @@ class Elaborator {
       f.alpha = std::clamp(set.number("alpha"), lo, hi);
       f.width = set.number("width");
       f.sync = sync;
+      f.alpha_min = lo;
+      f.alpha_max = hi;
+      if (set.words.count("regulate")) {
+        if (!set.has("target") || (!set.has("kp") && !set.has("ki"))) {
+          diags_.Error(set.where.at("regulate"), "a regulating firing needs target and kp or ki");
+          return;
+        }
+        f.regulate = set.words.at("regulate");
+        f.target = set.number("target");
+        f.kp = set.number("kp");
+        f.ki = set.number("ki");
+        regulated_.push_back({static_cast<int>(c.firings().size()), set.where.at("regulate")});
+      }
       for (std::size_t k = 0; k < c.devices().size(); ++k)
         if (c.devices()[k].get() == phase_a) f.supply_phase_device = static_cast<int>(k);
       if (f.alpha != set.number("alpha"))
@@ -1007,6 +1033,7 @@ class Elaborator {
   };
   std::map<std::string, CoreUse> cores_;
   std::map<std::string, int> firings_;  // firing name → index in Circuit::firings()
+  std::vector<std::pair<int, SourceLoc>> regulated_;  // firings that regulate a probe
 };
 
 }  // namespace

@@ -135,7 +135,11 @@ const std::vector<KindSpec>& ElementKinds() {
                       Angle("alpha", 0.0, "delay angle after the natural commutation instant"),
                       Angle("width", 2.0 * std::numbers::pi / 3.0, "gate pulse width"),
                       Angle("alpha_min", 0.0, "smallest delay angle allowed"),
-                      Angle("alpha_max", std::numbers::pi, "largest delay angle allowed")},
+                      Angle("alpha_max", std::numbers::pi, "largest delay angle allowed"),
+                      Name("regulate", false, "a probe (a current) to hold at target by moving alpha"),
+                      Num("target", dims::kCurrent, std::nullopt, kAnyValue, "the regulated current's set point"),
+                      Num("kp", dims::kNone / dims::kCurrent, 0.0, kNonNeg, "proportional gain, rad per A of error"),
+                      Num("ki", dims::kNone / (dims::kCurrent * dims::kTime), 0.0, kNonNeg, "integral gain, rad per A·s of error")},
                      "the six gate pulse trains of a bridge"});
     kinds.push_back({"core", {},
                      {Num("Lm", dims::kInductance, std::nullopt, kPos, "magnetising inductance, referred to the reference winding", true),

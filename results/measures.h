@@ -22,4 +22,12 @@ struct WindowStats {
 // comparison allows half a sample of rounding. No samples: samples = 0.
 WindowStats Measure(const std::vector<double>& t, const std::vector<double>& x, double begin, double end);
 
+// The settling time of a regulated quantity: the first time after which the
+// mean of x over the preceding `window` (one period, to average out the
+// converter ripple) stays within band·|target| of target to the end of the
+// record. Negative if it never settles (or the record is shorter than a
+// window).
+double SettlingTime(const std::vector<double>& t, const std::vector<double>& x, double target, double band,
+                    double window);
+
 }  // namespace lcc

@@ -84,6 +84,25 @@ std::string FormatReport(const CaseOutput& o) {
     }
     out += "\n";
   }
+  if (!o.circuit->firings().empty()) {
+    out += "Firing\n";
+    const auto& firings = o.circuit->firings();
+    for (std::size_t f = 0; f < firings.size(); ++f) {
+      const Firing& fr = firings[f];
+      const double alpha = f < o.run->final_alpha.size() ? o.run->final_alpha[f] : fr.alpha;
+      out += fmt::format("  {:<16} alpha at the end {:.3f} deg", fr.name, alpha * 180.0 / std::numbers::pi);
+      if (fr.regulate_probe >= 0) {
+        const auto& column = o.recorder->columns()[fr.regulate_probe];
+        const WindowStats w = Measure(o.recorder->time(), column, s.window_begin, s.window_end);
+        const double settle = s.period > 0 ? SettlingTime(o.recorder->time(), column, fr.target, 0.01, s.period) : -1;
+        out += fmt::format("; regulates {} to {:.6g} A: mean {:.6g} A ({:+.3f} %), ", fr.regulate, fr.target, w.mean,
+                           100.0 * (w.mean - fr.target) / fr.target);
+        out += settle >= 0 ? fmt::format("within 1 % from {:.4g} s", settle) : std::string("not settled within 1 %");
+      }
+      out += "\n";
+    }
+    out += "\n";
+  }
   out += "Run statistics\n";
   out += s.FullReport();
   return out;

@@ -1,0 +1,55 @@
+// The firing element's current regulator, and the settling-time measure.
+#include <catch2/catch.hpp>
+
+#include <cmath>
+
+#include "results/measures.h"
+#include "tests/test_utilities/run_netlist.h"
+
+namespace lcc {
+namespace {
+
+TEST_CASE("SettlingTimeOfAnExponentialMatchesItsClosedForm", "[measures]") {
+  // x = 1 − e^(−t/τ): its mean over the window [t − W, t] is
+  //   1 − (τ/W)·e^(−t/τ)·(e^(W/τ) − 1),
+  // within 1 % of 1 once t ≥ τ·ln((τ/W)·(e^(W/τ) − 1)/0.01).
+  const double tau = 0.05, w = 0.02, dt = 1e-5;
+  std::vector<double> t, x;
+  for (int k = 0; k <= 100000; ++k) {
+    t.push_back(k * dt);
+    x.push_back(1 - std::exp(-t.back() / tau));
+  }
+  const double expected = tau * std::log(tau / w * (std::exp(w / tau) - 1) / 0.01);
+  REQUIRE(SettlingTime(t, x, 1.0, 0.01, w) == Approx(expected).margin(2 * dt));
+}
+
+TEST_CASE("TheCurrentRegulatorHoldsTheArmatureCurrentAtItsTarget", "[thyristor][regulator]") {
+  auto c = testing::Simulate(R"(
+supply Mains (a, b, c) Vll = 400 V f = 50 Hz Ssc = 2 MVA xr = 8
+probe Ia = La.i
+firing F sync = Mains alpha = 60 deg alpha_min = 5 deg alpha_max = 150 deg
+         regulate = Ia target = 200 A kp = 0.5e-3 rad / 1 A ki = 0.1 rad / (1 A * 1 s)
+bridge B ac = (a, b, c) dc = (p, n) valve = thyristor firing = F
+inductor La (p, q) L = 2 mH R = 50 mohm
+voltage_source Eb (q, n) dc = 400 V
+simulate stop = 1 s
+steady cycles = 2
+)");
+  REQUIRE(c.run.summary.steady_reached);
+  const double mean = c.Window("Ia").mean;
+  INFO("armature current " << mean << " A, delay angle " << c.run.final_alpha[0] * 180 / M_PI << " deg");
+  REQUIRE(std::abs(mean - 200.0) < 0.01 * 200.0);
+  const double settle = SettlingTime(c.recorder->time(), c.Column("Ia"), 200.0, 0.01, 0.02);
+  REQUIRE(settle > 0);
+  REQUIRE(settle < c.run.summary.steady_time);
+  // The delay it settles at satisfies Vd = Eb + R·Id for the closed form
+  // Vd = Vdo·cos α − 3ωLs·Id/π (Mohan et al., 3rd ed., §6-4), Ls from Ssc:
+  const double z = 400.0 * 400.0 / 2e6, x = z * 8 / std::sqrt(65.0), r = z / std::sqrt(65.0);
+  const double vdo = 3 * std::sqrt(2.0) / M_PI * 400.0;
+  // The source resistance drops about 2·R·Id on the DC side as well (two phases conduct).
+  const double cos_alpha = (400.0 + 0.05 * 200.0 + 3 * x * 200.0 / M_PI + 2 * r * 200.0) / vdo;
+  REQUIRE(std::abs(c.run.final_alpha[0] - std::acos(cos_alpha)) * 180 / M_PI < 1.0);
+}
+
+}  // namespace
+}  // namespace lcc
