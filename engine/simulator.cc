@@ -310,6 +310,7 @@ class Run {
       } else if (awaiting_forward_[k] && v.Voltage(y) >= v.params().v_f) {
         result_.forward_voltage.push_back({t, valves_[k].device, t_off_[k]});
         awaiting_forward_[k] = 0;
+        ControlExtinction(v, t - t_off_[k], t);
       }
     }
     if (flips.empty() && !flagged.empty()) return true;
@@ -512,6 +513,21 @@ class Run {
     }
     result_.final_alpha = alpha_now_;
     return changed;
+  }
+
+  // γ control: one step of alpha per measured extinction interval.
+  void ControlExtinction(const Valve& v, double interval, double t) {
+    const int f = v.gate().firing;
+    if (f < 0 || period_ <= 0) return;
+    const Firing& fr = circuit_.firings()[f];
+    if (fr.gamma <= 0) return;
+    const double gamma = 2 * std::numbers::pi / period_ * interval;
+    constexpr double kMaxStep = 2.0 * std::numbers::pi / 180.0;
+    const double step = std::clamp(0.5 * (gamma - fr.gamma), -kMaxStep, kMaxStep);
+    alpha_now_[f] = std::clamp(alpha_now_[f] + step, fr.alpha_min, fr.alpha_max);
+    result_.final_alpha = alpha_now_;
+    next_gate_edge_ = NextGateEdge(t);
+    ArmStopTime(t);
   }
 
   // Adds ∫probe dt over the step just taken (trapezoid rule on the step's

@@ -55,6 +55,12 @@ struct Firing {
   double ki = 0.0;        // rad/(A·s)
   double alpha_min = 0.0;
   double alpha_max = 3.141592653589793;
+
+  // Extinction-angle control (an inverter's γ_min control): after each
+  // valve's extinction interval γ is measured, alpha moves by half the
+  // error γ − gamma (at most 2° a step), so that the inverter runs with the
+  // least advance that still leaves `gamma` for the valves to recover.
+  double gamma = 0.0;     // rad; 0: off
 };
 
 class Circuit {

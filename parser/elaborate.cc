@@ -434,6 +434,11 @@ class Elaborator {
       f.sync = sync;
       f.alpha_min = lo;
       f.alpha_max = hi;
+      f.gamma = set.number("gamma");
+      if (f.gamma > 0 && set.words.count("regulate")) {
+        diags_.Error(set.where.at("gamma"), "a firing element regulates a current or the extinction angle, not both");
+        return;
+      }
       if (set.words.count("regulate")) {
         if (!set.has("target") || (!set.has("kp") && !set.has("ki"))) {
           diags_.Error(set.where.at("regulate"), "a regulating firing needs target and kp or ki");

@@ -139,7 +139,8 @@ const std::vector<KindSpec>& ElementKinds() {
                       Name("regulate", false, "a probe (a current) to hold at target by moving alpha"),
                       Num("target", dims::kCurrent, std::nullopt, kAnyValue, "the regulated current's set point"),
                       Num("kp", dims::kNone / dims::kCurrent, 0.0, kNonNeg, "proportional gain, rad per A of error"),
-                      Num("ki", dims::kNone / (dims::kCurrent * dims::kTime), 0.0, kNonNeg, "integral gain, rad per A·s of error")},
+                      Num("ki", dims::kNone / (dims::kCurrent * dims::kTime), 0.0, kNonNeg, "integral gain, rad per A·s of error"),
+                      Angle("gamma", 0.0, "extinction angle to hold in inverter operation (0: off)")},
                      "the six gate pulse trains of a bridge"});
     kinds.push_back({"core", {},
                      {Num("Lm", dims::kInductance, std::nullopt, kPos, "magnetising inductance, referred to the reference winding", true),

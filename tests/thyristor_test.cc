@@ -80,6 +80,27 @@ TEST_CASE("InverterExtinctionAngleIs180MinusAlphaMinusOverlap", "[thyristor][bri
   }
 }
 
+TEST_CASE("ExtinctionAngleControlHoldsGammaWithTheClosedFormAdvance", "[thyristor][inverter]") {
+  // Holding γ at its set value needs cos(180° − γ) = cos α − 2ωLs·Id/(√2·VLL),
+  // i.e. α = acos(2ωLs·Id/(√2·VLL) − cos γ) (check-values 2.7).
+  auto c = testing::Simulate(R"(
+supply Ac (a, b, c) Vll = 400 V f = 50 Hz R = 0 ohm L = 0.5 mH
+firing Fi sync = Ac alpha = 140 deg alpha_max = 170 deg gamma = 18 deg
+bridge Bi ac = (a, b, c) dc = (p, n) valve = thyristor firing = Fi Ron = 1 uohm
+current_source Idc (n, p) dc = 100 A
+simulate stop = 1 s
+steady cycles = 2
+probe Vd = p - n
+)");
+  REQUIRE(c.run.summary.steady_reached);
+  const double k = 2 * kW * 0.5e-3 * kId / (std::sqrt(2.0) * kVll);
+  const double alpha = std::acos(k - std::cos(18.0 / kDeg));
+  INFO("alpha " << c.run.final_alpha[0] * kDeg << " deg (closed form " << alpha * kDeg << ")");
+  REQUIRE(std::abs(c.run.final_alpha[0] - alpha) * kDeg < 0.3);
+  for (const auto& r : EventLog(c.design->circuit, c.run, kF))
+    if (r.event == "forward_voltage" && r.t >= c.run.summary.window_begin) REQUIRE(std::abs(r.extinction_deg - 18.0) < 0.3);
+}
+
 TEST_CASE("ATurnOffTimeLongerThanTheExtinctionIntervalCausesCommutationFailure",
           "[thyristor][inverter]") {
   // At α = 150°, Ls = 0.5 mH: γ ≈ 23°, i.e. about 1.3 ms at 50 Hz.
