@@ -540,17 +540,54 @@ class Elaborator {
     };
     const char* phase[3] = {"a", "b", "c"};
     const char* hv_port[3] = {"A", "B", "C"};
+    const double shift = set.number("shift");
+    if (shift != 0.0 && group->lv.delta) {
+      diags_.Error(set.where.at("shift"), "a phase shift needs a star (y or yn) LV winding",
+                   "the shift is made by a zig-zag LV winding; use for example Yy0 or Dyn11");
+      return;
+    }
+    if (std::abs(shift) > std::numbers::pi / 6 + 1e-12) {
+      diags_.Error(set.where.at("shift"), "shift must lie within ±30 deg");
+      return;
+    }
     std::vector<const Winding*> hv_w, lv_w;
+    std::vector<Core*> cores;
     for (int k = 0; k < 3; ++k) {
       auto& core = static_cast<Core&>(c.Add(std::make_unique<Core>(
           fmt::format("{}.core_{}", name, phase[k]), loc, xm / w, rc, vw1)));
+      cores.push_back(&core);
       auto [h1, h2] = ends(group->hv, hv_term, hv_star, k);
-      auto [l1, l2] = ends(group->lv, lv_term, lv_star, k);
       hv_w.push_back(&static_cast<const Winding&>(c.Add(std::make_unique<Winding>(
           fmt::format("{}.hv_{}", name, phase[k]), loc, h1, h2, &core, vw1, r_total / 2, x_total / 2 / w))));
+    }
+    for (int k = 0; k < 3; ++k) {
+      auto [l1, l2] = ends(group->lv, lv_term, lv_star, k);
+      if (shift == 0.0) {
+        lv_w.push_back(&static_cast<const Winding&>(c.Add(std::make_unique<Winding>(
+            fmt::format("{}.lv_{}", name, phase[k]), loc, l1, l2, cores[k], vw2, r_total / 2 * ratio2,
+            x_total / 2 / w * ratio2))));
+        continue;
+      }
+      // Zig-zag: a section of n_a turns on this phase's core in series with
+      // n_b turns, reversed, on the next core (a lead) or the previous one
+      // (a lag). With E_k+1 = E_k·e^(−j120°), the phase voltage is
+      //   E_k·(n_a + n_b·e^(±j60°)) = vw2·e^(±j·shift)  when
+      //   n_b = vw2·sin|shift|/sin 60°,  n_a = vw2·cos(shift) − n_b/2.
+      // The LV leakage is shared by the sections in proportion to turns.
+      const double nb = vw2 * std::sin(std::abs(shift)) / std::sin(std::numbers::pi / 3);
+      const double na = vw2 * std::cos(shift) - nb / 2;
+      const int other = (k + (shift > 0 ? 1 : 2)) % 3;
+      const int mid = c.Node(fmt::format("{}.zz_{}", name, phase[k]), loc);
+      const double share_a = na / (na + nb), share_b = nb / (na + nb);
+      // Ends as for a plain star winding (l1 dotted), the series node between.
       lv_w.push_back(&static_cast<const Winding&>(c.Add(std::make_unique<Winding>(
-          fmt::format("{}.lv_{}", name, phase[k]), loc, l1, l2, &core, vw2, r_total / 2 * ratio2,
-          x_total / 2 / w * ratio2))));
+          fmt::format("{}.lv_{}", name, phase[k]), loc, l1 == lv_term[k] ? l1 : mid, l1 == lv_term[k] ? mid : l1,
+          cores[k], na, r_total / 2 * ratio2 * share_a, x_total / 2 / w * ratio2 * share_a))));
+      // The second section is reversed: its dotted end faces away from the terminal.
+      const int sa = l1 == lv_term[k] ? l2 : mid, sb = l1 == lv_term[k] ? mid : l2;
+      lv_w.push_back(&static_cast<const Winding&>(c.Add(std::make_unique<Winding>(
+          fmt::format("{}.lv_{}_zz", name, phase[k]), loc, sa, sb, cores[other], nb,
+          r_total / 2 * ratio2 * share_b, x_total / 2 / w * ratio2 * share_b))));
     }
     // Line currents into the terminals: the sum of the winding currents
     // leaving each terminal into a winding.

@@ -166,7 +166,8 @@ const std::vector<KindSpec>& ElementKinds() {
                       Num("xr", dims::kNone, 10.0, kPos, "X/R ratio of the short-circuit impedance"),
                       Num("im", dims::kNone, 0.01, kPos, "magnetising current, fraction of rated current"),
                       Num("p0", dims::kPower, 0.0, kNonNeg, "no-load (core) loss, three-phase"),
-                      Num("f", dims::kFrequency, std::nullopt, kPos, "rated frequency (default: the circuit's fundamental)")},
+                      Num("f", dims::kFrequency, std::nullopt, kPos, "rated frequency (default: the circuit's fundamental)"),
+                      Angle("shift", 0.0, "extra phase shift of the LV voltages, leading when positive (zig-zag LV)")},
                      "a three-phase two-winding transformer from its nameplate"});
     {
       std::vector<KeySpec> keys = {

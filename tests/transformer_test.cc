@@ -65,6 +65,34 @@ probe Vab = a - b
   }
 }
 
+TEST_CASE("APhaseShiftingTransformerAddsItsShift", "[transformer]") {
+  // Phase-shifting rectifier transformers (zig-zag LV) for 18- and 24-pulse
+  // groups: LV leads HV by shift − clock·30° (check-values 8.6).
+  struct Case { const char* group; double shift; int clock; };
+  const Case cases[] = {{"Yy0", 7.5, 0}, {"Yy0", -7.5, 0}, {"Yy0", 15, 0}, {"Yy0", -15, 0},
+                        {"Yy0", 20, 0},  {"Yy0", -20, 0},  {"Dyn11", 7.5, 11}};
+  for (const auto& cs : cases) {
+    SECTION(std::string(cs.group) + " shift " + std::to_string(cs.shift)) {
+      auto c = testing::Simulate(std::string(R"(
+supply G (A, B, C) Vll = 11 kV f = 50 Hz R = 0 ohm L = 0 H
+transformer T hv = (A, B, C) lv = (a, b, c) group = )") + cs.group + " shift = " + std::to_string(cs.shift) + R"( deg
+              S = 1 MVA V1 = 11 kV V2 = 400 V z = 6 % xr = 8 im = 1 %
+simulate stop = 100 ms
+steady cycles = 1
+probe VAB = A - B
+probe Vab = a - b
+)");
+      const auto hv = Fundamental(c, "VAB", 50), lv = Fundamental(c, "Vab", 50);
+      const double lead = std::arg(lv / hv) * 180 / std::numbers::pi;
+      double error = std::fmod(lead - (cs.shift - 30.0 * cs.clock) + 720.0, 360.0);
+      error = std::min(error, 360.0 - error);
+      INFO(cs.group << " shift " << cs.shift << ": LV leads by " << lead << " deg");
+      REQUIRE(error < 0.05);
+      REQUIRE(std::abs(std::abs(lv) / std::abs(hv) / (400.0 / 11000.0) - 1.0) < 1e-3);
+    }
+  }
+}
+
 TEST_CASE("AShortCircuitTestReproducesTheImpedance", "[transformer]") {
   // LV terminals shorted, HV fed at z·V1: rated current flows.
   auto c = testing::Simulate(R"(
