@@ -191,6 +191,7 @@ class Run {
     recover_until_.assign(valves_.size(), -1.0);
     t_off_.assign(valves_.size(), -1.0);
     awaiting_forward_.assign(valves_.size(), 0);
+    StartPlls();  // before the first Settle, which fires by the loops' angles
     if (!Settle(0.0, {})) return false;
     next_gate_edge_ = NextGateEdge(0.0);
 
@@ -253,6 +254,7 @@ class Run {
       }
       t = tret;
       AccumulateRegulated(t);
+      if (!pll_.empty() && t < next_gate_edge_) UpdatePlls(t, N_VGetArrayPointer(y_.get()));
       EmitSamples(std::min(t, t_end_), dt);
       TrackCycles(t);
       result_.summary.t_reached = t;
@@ -444,8 +446,14 @@ class Run {
         const auto& group = circuit_.valve_groups()[firings[f].group];
         auto node_phasor = [&](int node) { return node > 0 ? phasor[NodeUnknown(node)] : std::complex<double>(0.0); };
         const int a = circuit_.devices()[group.devices[0]]->nodes()[0];  // valve 1's anode
+        const int b = circuit_.devices()[group.devices[2]]->nodes()[0];  // valve 3's anode
         const int c = circuit_.devices()[group.devices[4]]->nodes()[0];  // valve 5's anode
-        angle = -std::numbers::pi / 2 - std::arg(node_phasor(a) - node_phasor(c));
+        // Positive-sequence phase a, V₁ = (V_a + h·V_b + h²·V_c)/3 with
+        // h = e^(j120°); its line voltage a−c is V₁·(1 − h). An unbalanced
+        // supply thus still gives equidistant pulses on its positive sequence.
+        const std::complex<double> h = std::polar(1.0, 2 * std::numbers::pi / 3);
+        const std::complex<double> v1 = (node_phasor(a) + h * node_phasor(b) + h * h * node_phasor(c)) / 3.0;
+        angle = -std::numbers::pi / 2 - std::arg(v1 * (1.0 - h));
       } else {
         const auto& e = static_cast<const SourceBranch&>(*circuit_.devices()[firings[f].supply_phase_device]).waveform();
         const double phase = e.sines.empty() ? 0.0 : e.sines.front().phase;
@@ -457,23 +465,36 @@ class Run {
     }
   }
 
-  // Start of pulse `pulse` of firing `f` in the cycle containing t = 0.
-  double PulseStart(const GateRef& g) const {
-    const Firing& f = circuit_.firings()[g.firing];
-    const double w = 2 * std::numbers::pi / period_;
-    (void)f;
-    return result_.firing_reference[g.firing] + (g.pulse - 1) * period_ / 6 + alpha_now_[g.firing] / w;
+  // The electrical angle of a firing element's timing frame at t: zero at
+  // the natural commutation instant of valve 1. Ideal: from the reference
+  // instant; measured: the PLL's angle (extrapolated from its last update)
+  // plus 60°, valve 1's natural instant being at θ = −60° of phase a.
+  double FiringAngle(int f, double t) const {
+    if (circuit_.firings()[f].measured_sync()) {
+      const Pll& p = pll_[f];
+      return p.theta + p.omega * (t - p.t) + std::numbers::pi / 3;
+    }
+    return 2 * std::numbers::pi / period_ * (t - result_.firing_reference[f]);
+  }
+  double FiringSpeed(int f) const {
+    return circuit_.firings()[f].measured_sync() ? pll_[f].omega : 2 * std::numbers::pi / period_;
+  }
+
+  // Angle since the start of pulse g (in [0, 2π)).
+  double PulseAngle(const GateRef& g, double t) const {
+    const double start = (g.pulse - 1) * std::numbers::pi / 3 + alpha_now_[g.firing];
+    double x = std::fmod(FiringAngle(g.firing, t) - start, 2 * std::numbers::pi);
+    if (x < 0) x += 2 * std::numbers::pi;
+    return x;
   }
 
   bool GateActive(const Valve& v, double t) const {
     if (v.type() != Valve::Type::kThyristor || v.gate().firing < 0 || period_ <= 0) return false;
     const Firing& f = circuit_.firings()[v.gate().firing];
-    const double w = 2 * std::numbers::pi / period_;
-    double x = std::fmod(t - PulseStart(v.gate()), period_);
-    if (x < 0) x += period_;
+    const double x = PulseAngle(v.gate(), t);
     // The pulse includes its own start instant, whatever rounding did to t.
-    const double slack = 1e-9 * period_;
-    return x < f.width / w || x > period_ - slack;
+    constexpr double kSlack = 1e-9 * 2 * std::numbers::pi;
+    return x < f.width || x > 2 * std::numbers::pi - kSlack;
   }
 
   // May valve k turn on now? Diodes always; thyristors while their gate
@@ -561,12 +582,81 @@ class Run {
     for (const auto& ref : valves_) {
       const Valve& v = *ref.valve;
       if (v.type() != Valve::Type::kThyristor || v.gate().firing < 0) continue;
-      const double start = PulseStart(v.gate());
-      double edge = start + std::ceil((t - start) / period_ + 1e-9) * period_;
-      if (edge <= t) edge += period_;
-      next = std::min(next, edge);
+      double to_go = 2 * std::numbers::pi - PulseAngle(v.gate(), t);
+      if (to_go < 1e-9) to_go += 2 * std::numbers::pi;
+      next = std::min(next, t + to_go / FiringSpeed(v.gate().firing));
     }
     return next;
+  }
+
+  // -- phase-locked loops ---------------------------------------------------
+
+  // The state of one SRF-PLL: angle θ of the measured positive-sequence
+  // phase-a voltage (cos reference), its speed ω, the integral part of ω.
+  struct Pll {
+    double t = 0.0, theta = 0.0, omega = 0.0, integral = 0.0;
+  };
+
+  // Clarke components (v_α, v_β) of the measured voltages in y.
+  std::pair<double, double> Clarke(const Firing& f, const double* y) const {
+    auto v = [&](int node) { return node > 0 ? y[NodeUnknown(node)] : 0.0; };
+    const double a = v(f.pll_nodes[0]), b = v(f.pll_nodes[1]), c = v(f.pll_nodes[2]);
+    return {(2.0 / 3.0) * (a - 0.5 * b - 0.5 * c), (1.0 / std::sqrt(3.0)) * (b - c)};
+  }
+
+  // Each loop starts locked to the positive sequence of the open-circuit
+  // voltages at its nodes (from the phasor solution), as a controller is
+  // synchronised before it releases pulses; the first instantaneous sample
+  // can be far off while the valves take up the load.
+  void StartPlls() {
+    const auto& firings = circuit_.firings();
+    pll_.assign(firings.size(), {});
+    Eigen::VectorXcd phasor;
+    bool have_phasor = false;
+    for (std::size_t f = 0; f < firings.size(); ++f) {
+      if (!firings[f].measured_sync()) continue;
+      if (!have_phasor) have_phasor = SolveHarmonicPhasor(mna_, firings[f].pll_frequency, 1, &phasor);
+      auto v = [&](int node) { return node > 0 && have_phasor ? phasor[NodeUnknown(node)] : std::complex<double>(0.0); };
+      const std::complex<double> h = std::polar(1.0, 2 * std::numbers::pi / 3);
+      const std::complex<double> va1 =
+          (v(firings[f].pll_nodes[0]) + h * v(firings[f].pll_nodes[1]) + h * h * v(firings[f].pll_nodes[2])) / 3.0;
+      // y(t) ∋ Re(V·e^(jωt)): the cos-reference angle of phase a at t = 0.
+      pll_[f] = {0.0, std::arg(va1), 2 * std::numbers::pi * firings[f].pll_frequency, 0.0};
+    }
+  }
+
+  // Advances every PLL to t from the solution there: the normalised q-axis
+  // voltage ε = v_q/|v_dq| ≈ sin(θ_measured − θ) drives a PI,
+  //   ω = ω0 + kp·ε + ki·∫ε dt,  θ' = ω,  kp = 2ζω_n, ki = ω_n² (ζ = 1/√2),
+  // updated once per integration step (steps are far shorter than 1/ω_n).
+  void UpdatePlls(double t, const double* y) {
+    const auto& firings = circuit_.firings();
+    bool any = false;
+    for (std::size_t f = 0; f < firings.size(); ++f) {
+      const Firing& fr = firings[f];
+      if (!fr.measured_sync()) continue;
+      Pll& p = pll_[f];
+      const double h = t - p.t;
+      if (h <= 0) continue;
+      const double theta = p.theta + p.omega * h;  // predicted
+      const auto [alpha, beta] = Clarke(fr, y);
+      const double vd = alpha * std::cos(theta) + beta * std::sin(theta);
+      const double vq = -alpha * std::sin(theta) + beta * std::cos(theta);
+      const double norm = std::hypot(vd, vq);
+      const double eps = norm > 0 ? vq / norm : 0.0;
+      const double wn = fr.pll_bandwidth;
+      const double kp = std::sqrt(2.0) * wn, ki = wn * wn;
+      p.integral += ki * eps * h;
+      p.omega = 2 * std::numbers::pi * fr.pll_frequency + kp * eps + p.integral;
+      p.theta = std::fmod(p.theta + p.omega * h, 2 * std::numbers::pi);
+      p.t = t;
+      any = true;
+    }
+    if (any) {
+      // The predicted pulse starts move with the loop's angle and speed.
+      next_gate_edge_ = NextGateEdge(t);
+      ArmStopTime(t);
+    }
   }
 
   // "B1[1], B1[3]": the distinct names of the valves with these indices.
@@ -669,7 +759,17 @@ class Run {
         sum += e * e;
       }
       previous_alpha_ = alpha_now_;
-      const std::size_t count = x.size() + alpha_now_.size();
+      // So are the phase-locked loops: their speed must have settled.
+      std::size_t loops = 0;
+      previous_pll_omega_.resize(pll_.size(), 0.0);
+      for (std::size_t f = 0; f < pll_.size(); ++f) {
+        if (pll_[f].omega == 0.0) continue;
+        const double e = (pll_[f].omega - previous_pll_omega_[f]) / (study_.steady->tol * 2 * std::numbers::pi / period_);
+        previous_pll_omega_[f] = pll_[f].omega;
+        sum += e * e;
+        ++loops;
+      }
+      const std::size_t count = x.size() + alpha_now_.size() + loops;
       const double wrms = count == 0 ? 0.0 : std::sqrt(sum / static_cast<double>(count));
       agreeing_cycles_ = wrms <= 1.0 ? agreeing_cycles_ + 1 : 0;
       if (agreeing_cycles_ >= 2) {
@@ -812,6 +912,7 @@ class Run {
   double next_gate_edge_ = std::numeric_limits<double>::infinity();
   std::vector<double> recover_until_;    // per valve: end of its recovery (tq)
   std::vector<double> alpha_now_;        // per firing: the delay angle in force (rad)
+  std::vector<Pll> pll_;                 // per firing: its PLL (measured synchronisation)
   std::vector<double> integral_;         // per firing: ∫e dt of its regulator (A·s)
   std::vector<double> last_regulation_;  // per firing: time of its last sample
   std::vector<double> regulated_integral_;    // per firing: ∫probe dt since its last sample
@@ -823,6 +924,7 @@ class Run {
   double next_boundary_ = 0.0;
   std::vector<double> previous_state_, cycle_peak_;
   std::vector<double> previous_alpha_;  // delay angles at the last cycle boundary
+  std::vector<double> previous_pll_omega_;  // loop speeds at the last cycle boundary
   int agreeing_cycles_ = 0;
 
   const bool wants_derivatives_ = sink_.wants_derivatives();

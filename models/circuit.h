@@ -61,6 +61,14 @@ struct Firing {
   // error γ − gamma (at most 2° a step), so that the inverter runs with the
   // least advance that still leaves `gamma` for the valves to recover.
   double gamma = 0.0;     // rad; 0: off
+
+  // Measured synchronisation: a synchronous-reference-frame phase-locked
+  // loop (Kaura & Blasko, IEEE TIA 33(1), 1997) on the voltages of these
+  // three nodes to gnd, instead of the ideal EMF. -1: ideal.
+  int pll_nodes[3] = {-1, -1, -1};
+  double pll_frequency = 0.0;  // Hz, the loop's centre frequency
+  double pll_bandwidth = 0.0;  // rad/s, the loop's natural frequency ω_n
+  bool measured_sync() const { return pll_nodes[0] >= 0; }
 };
 
 class Circuit {

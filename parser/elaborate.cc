@@ -415,9 +415,10 @@ class Elaborator {
       c.Add(std::make_unique<Valve>(name, loc, node(ports[0]), node(ports[1]), Valve::Type::kThyristor, p, false,
                                     GateRef{it->second, pulse}));
     } else if (kind.name == "firing") {
-      const std::string& sync = set.words.at("sync");
-      const Device* phase_a = c.FindDevice(sync + ".a");
-      if (!phase_a || std::string(phase_a->kind_name()) != "source_branch") {
+      const bool measured = set.nodes.count("sync") > 0;
+      const std::string sync = measured ? std::string() : set.words.at("sync");
+      const Device* phase_a = measured ? nullptr : c.FindDevice(sync + ".a");
+      if (!measured && (!phase_a || std::string(phase_a->kind_name()) != "source_branch")) {
         diags_.Error(set.where.at("sync"), fmt::format("'{}' is not a supply (define the supply before)", sync));
         return;
       }
@@ -434,6 +435,15 @@ class Elaborator {
       f.sync = sync;
       f.alpha_min = lo;
       f.alpha_max = hi;
+      if (measured) {
+        if (design_.study.fundamental <= 0) {
+          diags_.Error(set.where.at("sync"), "a phase-locked loop needs the nominal frequency: define a supply first");
+          return;
+        }
+        for (int k = 0; k < 3; ++k) f.pll_nodes[k] = node(set.nodes.at("sync")[k]);
+        f.pll_frequency = design_.study.fundamental;
+        f.pll_bandwidth = 2 * std::numbers::pi * set.number("pll_bandwidth", 10.0);
+      }
       f.gamma = set.number("gamma");
       if (f.gamma > 0 && set.words.count("regulate")) {
         diags_.Error(set.where.at("gamma"), "a firing element regulates a current or the extinction angle, not both");
@@ -813,6 +823,17 @@ class Elaborator {
           continue;
         }
         out->nodes[key] = nodes;
+        continue;
+      }
+      if (is_tuple && spec->count == 3 && spec->type == KeyType::kName) {
+        // A name or a node list (`sync = Grid` or `sync = (a, b, c)`).
+        const auto& t = boost::get<ast::Tuple>(setting.value);
+        if (t.items.size() != 3) {
+          Error(file, t.offset, fmt::format("{} needs 3 nodes in brackets, found {}", key, t.items.size()));
+          ok = false;
+          continue;
+        }
+        out->nodes[key] = t.items;
         continue;
       }
       if (is_tuple) {

@@ -64,6 +64,13 @@ std::vector<KeySpec> SourceKeys(Dim dim) {
   };
 }
 
+// `sync = SUPPLY` (ideal) or `sync = (a, b, c)` (measured, through a PLL).
+KeySpec SyncKey() {
+  KeySpec k = Name("sync", true, "the supply whose EMF is the ideal timing reference, or (a, b, c): measured voltages through a phase-locked loop");
+  k.count = 3;
+  return k;
+}
+
 std::vector<KeySpec> ThyristorKeys() {
   return {
       Num("Ih", dims::kCurrent, 0.0, kNonNeg, "holding current: below it the thyristor turns off"),
@@ -131,7 +138,7 @@ const std::vector<KindSpec>& ElementKinds() {
       kinds.push_back({"thyristor", {"anode", "cathode"}, keys, "a thyristor valve"});
     }
     kinds.push_back({"firing", {},
-                     {Name("sync", true, "the supply whose EMF is the ideal timing reference"),
+                     {SyncKey(),
                       Angle("alpha", 0.0, "delay angle after the natural commutation instant"),
                       Angle("width", 2.0 * std::numbers::pi / 3.0, "gate pulse width"),
                       Angle("alpha_min", 0.0, "smallest delay angle allowed"),
@@ -140,7 +147,8 @@ const std::vector<KindSpec>& ElementKinds() {
                       Num("target", dims::kCurrent, std::nullopt, kAnyValue, "the regulated current's set point"),
                       Num("kp", dims::kNone / dims::kCurrent, 0.0, kNonNeg, "proportional gain, rad per A of error"),
                       Num("ki", dims::kNone / (dims::kCurrent * dims::kTime), 0.0, kNonNeg, "integral gain, rad per A·s of error"),
-                      Angle("gamma", 0.0, "extinction angle to hold in inverter operation (0: off)")},
+                      Angle("gamma", 0.0, "extinction angle to hold in inverter operation (0: off)"),
+                      Num("pll_bandwidth", dims::kFrequency, 10.0, kPos, "natural frequency of the phase-locked loop (with sync = (a, b, c))")},
                      "the six gate pulse trains of a bridge"});
     kinds.push_back({"core", {},
                      {Num("Lm", dims::kInductance, std::nullopt, kPos, "magnetising inductance, referred to the reference winding", true),
