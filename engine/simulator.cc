@@ -595,6 +595,7 @@ class Run {
   // phase-a voltage (cos reference), its speed ω, the integral part of ω.
   struct Pll {
     double t = 0.0, theta = 0.0, omega = 0.0, integral = 0.0;
+    double unwrapped = 0.0;  // θ without the modulo, for the mean frequency
   };
 
   // Clarke components (v_α, v_β) of the measured voltages in y.
@@ -621,7 +622,7 @@ class Run {
       const std::complex<double> va1 =
           (v(firings[f].pll_nodes[0]) + h * v(firings[f].pll_nodes[1]) + h * h * v(firings[f].pll_nodes[2])) / 3.0;
       // y(t) ∋ Re(V·e^(jωt)): the cos-reference angle of phase a at t = 0.
-      pll_[f] = {0.0, std::arg(va1), 2 * std::numbers::pi * firings[f].pll_frequency, 0.0};
+      pll_[f] = {0.0, std::arg(va1), 2 * std::numbers::pi * firings[f].pll_frequency, 0.0, std::arg(va1)};
     }
   }
 
@@ -649,6 +650,7 @@ class Run {
       p.integral += ki * eps * h;
       p.omega = 2 * std::numbers::pi * fr.pll_frequency + kp * eps + p.integral;
       p.theta = std::fmod(p.theta + p.omega * h, 2 * std::numbers::pi);
+      p.unwrapped += p.omega * h;
       p.t = t;
       any = true;
     }
@@ -760,12 +762,20 @@ class Run {
       }
       previous_alpha_ = alpha_now_;
       // So are the phase-locked loops: their speed must have settled.
+      // A loop is settled when its mean frequency over the cycle is the
+      // supply's within kPllSteadyTolerance: its instantaneous speed
+      // carries the ripple of any unbalance and of the commutation notches.
+      constexpr double kPllSteadyTolerance = 1e-4;
       std::size_t loops = 0;
-      previous_pll_omega_.resize(pll_.size(), 0.0);
+      previous_pll_angle_.resize(pll_.size(), 0.0);
       for (std::size_t f = 0; f < pll_.size(); ++f) {
         if (pll_[f].omega == 0.0) continue;
-        const double e = (pll_[f].omega - previous_pll_omega_[f]) / (study_.steady->tol * 2 * std::numbers::pi / period_);
-        previous_pll_omega_[f] = pll_[f].omega;
+        const Pll& p = pll_[f];
+        const double angle = p.unwrapped + p.omega * (next_boundary_ - p.t);
+        const double mean_speed = (angle - previous_pll_angle_[f]) / period_;
+        const double w0 = 2 * std::numbers::pi / period_;
+        const double e = (mean_speed - w0) / (kPllSteadyTolerance * w0);
+        previous_pll_angle_[f] = angle;
         sum += e * e;
         ++loops;
       }
@@ -924,7 +934,7 @@ class Run {
   double next_boundary_ = 0.0;
   std::vector<double> previous_state_, cycle_peak_;
   std::vector<double> previous_alpha_;  // delay angles at the last cycle boundary
-  std::vector<double> previous_pll_omega_;  // loop speeds at the last cycle boundary
+  std::vector<double> previous_pll_angle_;  // unwrapped loop angles at the last cycle boundary
   int agreeing_cycles_ = 0;
 
   const bool wants_derivatives_ = sink_.wants_derivatives();
