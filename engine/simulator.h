@@ -64,7 +64,7 @@ struct EngineOptions {
     // After each event, one backward-Euler step of this fraction of the
     // largest step settles parasitic fast modes (L/Roff) before IDA
     // restarts; 0 turns it off.
-    double relax_step_fraction = 1e-4;
+    double relax_step_fraction = 1e-3;
   } events;
 
   LuOptions lu;  // dense below lu.dense_limit unknowns, sparse above
