@@ -132,6 +132,16 @@ class Device {
   void BranchCurrentForm(LinearForm* form, double sign = 1.0) const {
     form->AddY(branch(0), sign);
   }
+  // `.i` is the branch current, `.v` the terminal voltage: the signals of
+  // every device whose current is its branch unknown.
+  bool BranchSignal(std::string_view what, LinearForm* form, Dim* dim) const {
+    if (what == "i") {
+      BranchCurrentForm(form);
+      *dim = dims::kCurrent;
+      return true;
+    }
+    return Device::Signal(what, form, dim);
+  }
   void VoltageForm(LinearForm* form) const {
     form->AddY(NodeUnknown(nodes_[0]), 1.0);
     form->AddY(NodeUnknown(nodes_[1]), -1.0);

@@ -16,12 +16,7 @@ void Valve::AddSources(double, bool on, double* b) const {
 }
 
 bool Valve::Signal(std::string_view what, LinearForm* form, Dim* dim) const {
-  if (what == "i") {
-    BranchCurrentForm(form);
-    *dim = dims::kCurrent;
-    return true;
-  }
-  return Device::Signal(what, form, dim);
+  return BranchSignal(what, form, dim);
 }
 
 }  // namespace lcc

@@ -16,12 +16,7 @@ void Winding::Stamp(StampSink& sink, bool) const {
 }
 
 bool Winding::Signal(std::string_view what, LinearForm* form, Dim* dim) const {
-  if (what == "i") {
-    BranchCurrentForm(form);
-    *dim = dims::kCurrent;
-    return true;
-  }
-  return Device::Signal(what, form, dim);
+  return BranchSignal(what, form, dim);
 }
 
 }  // namespace lcc

@@ -20,20 +20,8 @@
 namespace lcc {
 namespace {
 
-// Fundamental phasor of x over the run's analysis window (a synchronous DFT
-// over whole cycles: no leakage).
 std::complex<double> Fundamental(const testing::SimulatedCase& c, const std::string& probe, double f) {
-  const auto& t = c.recorder->time();
-  const auto& x = c.Column(probe);
-  std::complex<double> sum = 0;
-  int count = 0;
-  const double half = 0.5 * (t[1] - t[0]);
-  for (std::size_t k = 0; k < t.size(); ++k) {
-    if (t[k] < c.run.summary.window_begin - half || t[k] >= c.run.summary.window_end - half) continue;
-    sum += x[k] * std::polar(1.0, -2 * std::numbers::pi * f * t[k]);
-    ++count;
-  }
-  return sum * 2.0 / static_cast<double>(count);
+  return testing::Harmonic(c, probe, f, 1);
 }
 
 TEST_CASE("EveryVectorGroupHasItsRatioAndClockDisplacement", "[transformer]") {

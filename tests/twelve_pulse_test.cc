@@ -19,17 +19,7 @@ namespace lcc {
 namespace {
 
 double HarmonicMagnitude(const testing::SimulatedCase& c, const std::string& probe, double f, int h) {
-  const auto& t = c.recorder->time();
-  const auto& x = c.Column(probe);
-  std::complex<double> sum = 0;
-  int count = 0;
-  const double half = 0.5 * (t[1] - t[0]);
-  for (std::size_t k = 0; k < t.size(); ++k) {
-    if (t[k] < c.run.summary.window_begin - half || t[k] >= c.run.summary.window_end - half) continue;
-    sum += x[k] * std::polar(1.0, -2 * std::numbers::pi * f * h * t[k]);
-    ++count;
-  }
-  return std::abs(sum) * 2.0 / count;  // peak
+  return std::abs(testing::Harmonic(c, probe, f, h));  // peak
 }
 
 // Check-values 3.1: rms of harmonic h of a six-pulse bridge's line current

@@ -1,6 +1,7 @@
 #include "tests/test_utilities/run_netlist.h"
 
 #include <catch2/catch.hpp>
+#include <cmath>
 #include <stdexcept>
 
 namespace lcc::testing {
@@ -26,6 +27,20 @@ double SimulatedCase::SwitchTime(const std::string& name, bool on, int n) const 
     if (devices[e.device]->name() == name && e.on == on && n-- == 0) return e.t;
   }
   throw std::runtime_error("no such switching of " + name);
+}
+
+std::complex<double> Harmonic(const SimulatedCase& c, const std::string& probe, double f, int h) {
+  const auto& t = c.recorder->time();
+  const auto& x = c.Column(probe);
+  std::complex<double> sum = 0;
+  int count = 0;
+  const double half = 0.5 * (t[1] - t[0]);
+  for (std::size_t k = 0; k < t.size(); ++k) {
+    if (t[k] < c.run.summary.window_begin - half || t[k] >= c.run.summary.window_end - half) continue;
+    sum += x[k] * std::polar(1.0, -2 * M_PI * f * h * t[k]);
+    ++count;
+  }
+  return count ? sum * 2.0 / static_cast<double>(count) : std::complex<double>(0.0);
 }
 
 SimulatedCase Simulate(const std::string& text, const EngineOptions& options) {

@@ -2,6 +2,7 @@
 // recorded probes over the analysis window.
 #pragma once
 
+#include <complex>
 #include <memory>
 #include <string>
 
@@ -27,6 +28,10 @@ struct SimulatedCase {
   // Time of the n-th (0-based) switching of device `name` to state `on`.
   double SwitchTime(const std::string& name, bool on, int n = 0) const;
 };
+
+// Phasor (peak, angle) of harmonic h of frequency f in a probe, by a
+// synchronous DFT over the run's analysis window (whole cycles: no leakage).
+std::complex<double> Harmonic(const SimulatedCase& c, const std::string& probe, double f, int h = 1);
 
 // Elaborates, checks and simulates; REQUIREs that each stage succeeds.
 SimulatedCase Simulate(const std::string& text, const EngineOptions& options = {});
