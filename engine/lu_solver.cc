@@ -17,41 +17,58 @@ LuSolver::LuSolver(const SparseMatrix& pattern, const LuOptions& options)
 bool LuSolver::Factorize(const double* values) {
   const int n = static_cast<int>(sparse_.rows());
   if (dense_) {
-    Eigen::MatrixXd& a = dense_matrix_;
-    a.setZero();
+    // Column-major storage, A[i + j·n], used through a raw pointer: at these
+    // sizes Eigen's element access does not fold away entirely.
+    double* A = dense_matrix_.data();
+    auto at = [A, n](int i, int j) -> double& { return A[i + static_cast<std::size_t>(j) * n]; };
+    // Clear what the last factorisation left (its L and U non-zeros and the
+    // diagonal), rather than all n² entries.
+    if (lower_start_.empty()) {
+      dense_matrix_.setZero();
+    } else {
+      for (int j = 0; j < n; ++j) {
+        at(j, j) = 0.0;
+        for (int p = lower_start_[j]; p < lower_start_[j + 1]; ++p) at(lower_rows_[p], j) = 0.0;
+        for (int p = upper_start_[j]; p < upper_start_[j + 1]; ++p) at(upper_rows_[p], j) = 0.0;
+      }
+    }
     const int* outer = sparse_.outerIndexPtr();
     const int* inner = sparse_.innerIndexPtr();
     for (int col = 0; col < n; ++col)
-      for (int p = outer[col]; p < outer[col + 1]; ++p) a(inner[p], col) = values[p];
+      for (int p = outer[col]; p < outer[col + 1]; ++p) at(inner[p], col) = values[p];
     // Right-looking elimination with partial pivoting, touching only the
     // non-zeros of each pivot column and pivot row: MNA matrices are mostly
     // zeros and stay so (little fill-in), which makes this far cheaper than
     // the n³/3 of a plain dense LU once n reaches a few dozen.
     for (int k = 0; k < n; ++k) {
+      double* colk = &at(0, k);
       int p = k;
       for (int i = k + 1; i < n; ++i)
-        if (std::abs(a(i, k)) > std::abs(a(p, k))) p = i;
+        if (std::abs(colk[i]) > std::abs(colk[p])) p = i;
       pivot_[k] = p;
-      if (p != k) a.row(k).swap(a.row(p));
+      if (p != k)
+        for (int j = 0; j < n; ++j) std::swap(at(k, j), at(p, j));
       // Valve resistances span 15 decades, so a tiny pivot relative to the
       // largest is normal; only an exact zero (a structural singularity the
       // topology checks missed) or a non-finite value is a failure.
-      const double pivot = a(k, k);
-      if (!std::isfinite(pivot) || std::abs(pivot) <= 1e-300) return false;
+      const double pivot = colk[k];
+      if (!std::isfinite(pivot) || std::abs(pivot) <= 1e-300) {
+        lower_start_.clear();  // the next call must clear the whole matrix
+        return false;
+      }
       const double inv = 1.0 / pivot;
       rows_.clear();
       for (int i = k + 1; i < n; ++i)
-        if (a(i, k) != 0.0) {
-          a(i, k) *= inv;
+        if (colk[i] != 0.0) {
+          colk[i] *= inv;
           rows_.push_back(i);
         }
       if (rows_.empty()) continue;
       for (int j = k + 1; j < n; ++j) {
-        const double ukj = a(k, j);
+        double* colj = &at(0, j);
+        const double ukj = colj[k];
         if (ukj == 0.0) continue;
-        double* col = &a(0, j);
-        const double* lk = &a(0, k);
-        for (int i : rows_) col[i] -= lk[i] * ukj;
+        for (int i : rows_) colj[i] -= colk[i] * ukj;
       }
     }
     // Non-zeros of L (below the diagonal) and U (above) by column, for Solve().
@@ -60,10 +77,11 @@ bool LuSolver::Factorize(const double* values) {
     lower_rows_.clear();
     upper_rows_.clear();
     for (int j = 0; j < n; ++j) {
+      const double* colj = &at(0, j);
       for (int i = 0; i < j; ++i)
-        if (a(i, j) != 0.0) upper_rows_.push_back(i);
+        if (colj[i] != 0.0) upper_rows_.push_back(i);
       for (int i = j + 1; i < n; ++i)
-        if (a(i, j) != 0.0) lower_rows_.push_back(i);
+        if (colj[i] != 0.0) lower_rows_.push_back(i);
       lower_start_[j + 1] = static_cast<int>(lower_rows_.size());
       upper_start_[j + 1] = static_cast<int>(upper_rows_.size());
     }
