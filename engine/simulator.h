@@ -60,7 +60,9 @@ struct EngineOptions {
     double chatter_window = 1e-7;
     // First step after an event, as a fraction of the last step before it
     // (never above the largest step). IDA's error test shortens it if needed.
-    double restart_step_fraction = 0.0625;
+    // Measured (callgrind instructions for 0.2 s): 1/16 → 1/2 saves 30 % on
+    // the twelve-pulse benchmark and costs 3 % on the six-pulse one.
+    double restart_step_fraction = 0.5;
     // After each event, one backward-Euler step of this fraction of the
     // largest step settles parasitic fast modes (L/Roff) before IDA
     // restarts; 0 turns it off.
