@@ -83,6 +83,7 @@ class Run {
     s.jacobian_evaluations = jac_evals_;
     s.linear_setups = solver_stats_.setups;
     s.symbolic_analyses = solver_stats_.analyses;
+    s.dense_lu = solver_stats_.dense;
     if (s.status == RunSummary::Status::kNotRun) s.status = RunSummary::Status::kCompleted;
     FinishWindow();
     return std::move(result_);
@@ -998,7 +999,9 @@ std::string RunSummary::FullReport() const {
   out += fmt::format("  valve switchings          {}\n", switchings);
   out += fmt::format("  residual evaluations      {}\n", residual_evaluations);
   out += fmt::format("  Jacobian evaluations      {}\n", jacobian_evaluations);
-  out += fmt::format("  LU factorisations         {} (symbolic analyses: {})\n", linear_setups, symbolic_analyses);
+  out += dense_lu ? fmt::format("  LU factorisations         {} (dense)\n", linear_setups)
+                  : fmt::format("  LU factorisations         {} (sparse; symbolic analyses: {})\n", linear_setups,
+                                symbolic_analyses);
   out += fmt::format("  error-test failures       {}\n", error_test_failures);
   out += fmt::format("  nonlinear failures        {}\n", nonlinear_failures);
   out += fmt::format("  root-function evaluations {}\n", root_evaluations);

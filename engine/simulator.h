@@ -144,6 +144,7 @@ struct RunSummary {
   long jacobian_evaluations = 0;
   long linear_setups = 0;         // numeric LU factorisations for IDA
   long symbolic_analyses = 0;
+  bool dense_lu = false;          // small system: dense LU, no symbolic analysis
   long error_test_failures = 0;
   long nonlinear_failures = 0;
   long root_evaluations = 0;
