@@ -132,6 +132,17 @@ class Device {
   void BranchCurrentForm(LinearForm* form, double sign = 1.0) const {
     form->AddY(branch(0), sign);
   }
+  // The stamps every branch device between nodes a and b shares: its
+  // current k leaves a and enters b (KCL rows), and its branch row starts
+  // with v_a − v_b.
+  void StampBranchIncidence(StampSink& sink) const {
+    const int a = NodeUnknown(nodes_[0]), b = NodeUnknown(nodes_[1]), k = branch();
+    sink.G(a, k, 1.0);
+    sink.G(b, k, -1.0);
+    sink.G(k, a, 1.0);
+    sink.G(k, b, -1.0);
+  }
+
   // `.i` is the branch current, `.v` the terminal voltage: the signals of
   // every device whose current is its branch unknown.
   bool BranchSignal(std::string_view what, LinearForm* form, Dim* dim) const {

@@ -3,11 +3,7 @@
 namespace lcc {
 
 void VoltageSource::Stamp(StampSink& sink, bool) const {
-  const int p = NodeUnknown(nodes()[0]), n = NodeUnknown(nodes()[1]), k = branch();
-  sink.G(p, k, 1.0);
-  sink.G(n, k, -1.0);
-  sink.G(k, p, 1.0);
-  sink.G(k, n, -1.0);
+  StampBranchIncidence(sink);
 }
 
 void VoltageSource::AddSources(double t, bool, double* b) const { b[branch()] += e_.Value(t); }

@@ -3,12 +3,8 @@
 namespace lcc {
 
 void Valve::Stamp(StampSink& sink, bool on) const {
-  const int a = NodeUnknown(nodes()[0]), k = NodeUnknown(nodes()[1]), j = branch();
-  sink.G(a, j, 1.0);
-  sink.G(k, j, -1.0);
-  sink.G(j, a, 1.0);
-  sink.G(j, k, -1.0);
-  sink.G(j, j, on ? -p_.r_on : -p_.r_off);
+  StampBranchIncidence(sink);
+  sink.G(branch(), branch(), on ? -p_.r_on : -p_.r_off);
 }
 
 void Valve::AddSources(double, bool on, double* b) const {

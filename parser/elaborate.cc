@@ -468,7 +468,7 @@ class Elaborator {
       firings_[name] = c.AddFiring(f);
     } else if (kind.name == "core") {
       auto& core = static_cast<Core&>(c.Add(std::make_unique<Core>(name, loc, set.number("Lm"), set.number("Rc"), 0.0)));
-      cores_[name] = {&core, set.words.count("ref") ? set.words.at("ref") : "", set.has("ref") ? set.where.at("ref") : loc};
+      cores_[name] = {&core, set.words.count("ref") ? set.words.at("ref") : "", set.has("ref") ? set.where.at("ref") : loc, {}};
     } else if (kind.name == "winding") {
       const std::string& core_name = set.words.at("core");
       auto it = cores_.find(core_name);
