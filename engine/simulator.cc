@@ -439,22 +439,18 @@ class Run {
     result_.firing_reference.assign(firings.size(), 0.0);
     if (firings.empty() || period_ <= 0) return;
     const double w = 2 * std::numbers::pi / period_;
-    Eigen::VectorXcd phasor;
-    const bool have_phasor = SolveHarmonicPhasor(mna_, 1.0 / period_, 1, &phasor);
     for (std::size_t f = 0; f < firings.size(); ++f) {
+      if (firings[f].measured_sync()) continue;  // timed by its PLL instead
       double angle = 0.0;  // ω·t1
-      if (firings[f].group >= 0 && have_phasor) {
+      if (firings[f].group >= 0 && StartPhasor()) {
         const auto& group = circuit_.valve_groups()[firings[f].group];
-        auto node_phasor = [&](int node) { return node > 0 ? phasor[NodeUnknown(node)] : std::complex<double>(0.0); };
         const int a = circuit_.devices()[group.devices[0]]->nodes()[0];  // valve 1's anode
         const int b = circuit_.devices()[group.devices[2]]->nodes()[0];  // valve 3's anode
         const int c = circuit_.devices()[group.devices[4]]->nodes()[0];  // valve 5's anode
-        // Positive-sequence phase a, V₁ = (V_a + h·V_b + h²·V_c)/3 with
-        // h = e^(j120°); its line voltage a−c is V₁·(1 − h). An unbalanced
-        // supply thus still gives equidistant pulses on its positive sequence.
+        // Its line voltage a−c is V₁·(1 − h), h = e^(j120°): an unbalanced
+        // supply still gives equidistant pulses on its positive sequence.
         const std::complex<double> h = std::polar(1.0, 2 * std::numbers::pi / 3);
-        const std::complex<double> v1 = (node_phasor(a) + h * node_phasor(b) + h * h * node_phasor(c)) / 3.0;
-        angle = -std::numbers::pi / 2 - std::arg(v1 * (1.0 - h));
+        angle = -std::numbers::pi / 2 - std::arg(PositiveSequence(a, b, c) * (1.0 - h));
       } else {
         const auto& e = static_cast<const SourceBranch&>(*circuit_.devices()[firings[f].supply_phase_device]).waveform();
         const double phase = e.sines.empty() ? 0.0 : e.sines.front().phase;
@@ -464,6 +460,25 @@ class Run {
       if (angle < 0) angle += 2 * std::numbers::pi;
       result_.firing_reference[f] = angle / w;
     }
+  }
+
+  // The fundamental phasor of every unknown with all valves blocking, solved
+  // once at start-up for the firing references and the PLLs' start.
+  const Eigen::VectorXcd* StartPhasor() {
+    if (!start_phasor_solved_) {
+      start_phasor_solved_ = true;
+      start_phasor_ok_ = SolveHarmonicPhasor(mna_, 1.0 / period_, 1, &start_phasor_);
+    }
+    return start_phasor_ok_ ? &start_phasor_ : nullptr;
+  }
+
+  // Positive-sequence phase-a phasor of three nodes' start phasors,
+  // V₁ = (V_a + h·V_b + h²·V_c)/3 with h = e^(j120°).
+  std::complex<double> PositiveSequence(int a, int b, int c) {
+    const Eigen::VectorXcd* phasor = StartPhasor();
+    auto v = [&](int node) { return node > 0 && phasor ? (*phasor)[NodeUnknown(node)] : std::complex<double>(0.0); };
+    const std::complex<double> h = std::polar(1.0, 2 * std::numbers::pi / 3);
+    return (v(a) + h * v(b) + h * h * v(c)) / 3.0;
   }
 
   // The electrical angle of a firing element's timing frame at t: zero at
@@ -613,17 +628,12 @@ class Run {
   void StartPlls() {
     const auto& firings = circuit_.firings();
     pll_.assign(firings.size(), {});
-    Eigen::VectorXcd phasor;
-    bool have_phasor = false;
     for (std::size_t f = 0; f < firings.size(); ++f) {
-      if (!firings[f].measured_sync()) continue;
-      if (!have_phasor) have_phasor = SolveHarmonicPhasor(mna_, firings[f].pll_frequency, 1, &phasor);
-      auto v = [&](int node) { return node > 0 && have_phasor ? phasor[NodeUnknown(node)] : std::complex<double>(0.0); };
-      const std::complex<double> h = std::polar(1.0, 2 * std::numbers::pi / 3);
-      const std::complex<double> va1 =
-          (v(firings[f].pll_nodes[0]) + h * v(firings[f].pll_nodes[1]) + h * h * v(firings[f].pll_nodes[2])) / 3.0;
+      const Firing& fr = firings[f];
+      if (!fr.measured_sync()) continue;
       // y(t) ∋ Re(V·e^(jωt)): the cos-reference angle of phase a at t = 0.
-      pll_[f] = {0.0, std::arg(va1), 2 * std::numbers::pi * firings[f].pll_frequency, 0.0, std::arg(va1)};
+      const double theta = std::arg(PositiveSequence(fr.pll_nodes[0], fr.pll_nodes[1], fr.pll_nodes[2]));
+      pll_[f] = {0.0, theta, 2 * std::numbers::pi * fr.pll_frequency, 0.0, theta};
     }
   }
 
@@ -920,6 +930,8 @@ class Run {
   double period_ = 0.0;
   double t_end_ = 0.0;
   double t_restart_ = 0.0;  // where IDA was last (re)initialised
+  Eigen::VectorXcd start_phasor_;  // see StartPhasor()
+  bool start_phasor_solved_ = false, start_phasor_ok_ = false;
   double next_gate_edge_ = std::numeric_limits<double>::infinity();
   std::vector<double> recover_until_;    // per valve: end of its recovery (tq)
   std::vector<double> alpha_now_;        // per firing: the delay angle in force (rad)
