@@ -24,21 +24,27 @@ std::complex<double> Fundamental(const testing::SimulatedCase& c, const std::str
   return testing::Harmonic(c, probe, f, 1);
 }
 
+// A 1 MVA, 11 kV / 400 V transformer on an ideal supply, LV open, with its
+// line voltages probed; `connection` is its group (and shift) setting.
+std::string OpenCircuit(const std::string& connection) {
+  return R"(
+supply G (A, B, C) Vll = 11 kV f = 50 Hz R = 0 ohm L = 0 H
+transformer T hv = (A, B, C) lv = (a, b, c) )" + connection + R"(
+              S = 1 MVA V1 = 11 kV V2 = 400 V z = 6 % xr = 8 im = 1 %
+simulate stop = 100 ms
+steady cycles = 1
+probe VAB = A - B
+probe Vab = a - b
+)";
+}
+
 TEST_CASE("EveryVectorGroupHasItsRatioAndClockDisplacement", "[transformer]") {
   struct Group { const char* name; int clock; };
   const Group groups[] = {{"Yy0", 0}, {"Yy6", 6}, {"Yd1", 1}, {"Yd5", 5}, {"Yd11", 11}, {"Dy1", 1},
                           {"Dy5", 5}, {"Dy11", 11}, {"Dd0", 0}, {"Dd6", 6}, {"YNd11", 11}, {"Dyn11", 11}};
   for (const auto& g : groups) {
     SECTION(g.name) {
-      auto c = testing::Simulate(std::string(R"(
-supply G (A, B, C) Vll = 11 kV f = 50 Hz R = 0 ohm L = 0 H
-transformer T hv = (A, B, C) lv = (a, b, c) group = )") + g.name + R"(
-              S = 1 MVA V1 = 11 kV V2 = 400 V z = 6 % xr = 8 im = 1 %
-simulate stop = 100 ms
-steady cycles = 1
-probe VAB = A - B
-probe Vab = a - b
-)");
+      auto c = testing::Simulate(OpenCircuit(std::string("group = ") + g.name));
       const auto hv = Fundamental(c, "VAB", 50), lv = Fundamental(c, "Vab", 50);
       const double ratio = std::abs(lv) / std::abs(hv);
       const double lag = std::fmod(std::arg(hv / lv) * 180 / std::numbers::pi + 360.0, 360.0);
@@ -61,15 +67,7 @@ TEST_CASE("APhaseShiftingTransformerAddsItsShift", "[transformer]") {
                         {"Yy0", 20, 0},  {"Yy0", -20, 0},  {"Dyn11", 7.5, 11}};
   for (const auto& cs : cases) {
     SECTION(std::string(cs.group) + " shift " + std::to_string(cs.shift)) {
-      auto c = testing::Simulate(std::string(R"(
-supply G (A, B, C) Vll = 11 kV f = 50 Hz R = 0 ohm L = 0 H
-transformer T hv = (A, B, C) lv = (a, b, c) group = )") + cs.group + " shift = " + std::to_string(cs.shift) + R"( deg
-              S = 1 MVA V1 = 11 kV V2 = 400 V z = 6 % xr = 8 im = 1 %
-simulate stop = 100 ms
-steady cycles = 1
-probe VAB = A - B
-probe Vab = a - b
-)");
+      auto c = testing::Simulate(OpenCircuit(std::string("group = ") + cs.group + " shift = " + std::to_string(cs.shift) + " deg"));
       const auto hv = Fundamental(c, "VAB", 50), lv = Fundamental(c, "Vab", 50);
       const double lead = std::arg(lv / hv) * 180 / std::numbers::pi;
       double error = std::fmod(lead - (cs.shift - 30.0 * cs.clock) + 720.0, 360.0);
