@@ -1,6 +1,7 @@
 #include "engine/phasor.h"
 
 #include <Eigen/Dense>
+#include <Eigen/SparseLU>
 #include <cmath>
 #include <complex>
 #include <numbers>
@@ -33,17 +34,25 @@ Eigen::VectorXcd Harmonic(const Eigen::MatrixXd& b, int h) {
   return bh;
 }
 
+// A sparse LU (COLAMD ordering, partial pivoting): the network matrix has
+// a few entries per column, and for a twelve-pulse circuit (about 60
+// unknowns) this is an order of magnitude fewer operations than a dense LU.
 bool SolveAt(MnaSystem& mna, double frequency, int h, const Eigen::VectorXcd& bh, Eigen::VectorXcd* y) {
+  using ComplexSparse = Eigen::SparseMatrix<std::complex<double>, Eigen::ColMajor, int>;
   const int n = mna.size();
   const auto& pattern = mna.pattern();
   const std::vector<double>& g = mna.g_values();
   const std::vector<double>& c = mna.c_values();
-  Eigen::MatrixXcd a = Eigen::MatrixXcd::Zero(n, n);
   const std::complex<double> jw(0.0, 2.0 * std::numbers::pi * frequency * h);
-  for (int col = 0; col < n; ++col)
-    for (int p = pattern.outerIndexPtr()[col]; p < pattern.outerIndexPtr()[col + 1]; ++p)
-      a(pattern.innerIndexPtr()[p], col) += g[p] + jw * c[p];
-  *y = Eigen::PartialPivLU<Eigen::MatrixXcd>(a).solve(bh);
+  ComplexSparse a(n, n);
+  a.resizeNonZeros(pattern.nonZeros());
+  std::copy(pattern.outerIndexPtr(), pattern.outerIndexPtr() + n + 1, a.outerIndexPtr());
+  std::copy(pattern.innerIndexPtr(), pattern.innerIndexPtr() + pattern.nonZeros(), a.innerIndexPtr());
+  for (int p = 0; p < pattern.nonZeros(); ++p) a.valuePtr()[p] = g[p] + jw * c[p];
+  Eigen::SparseLU<ComplexSparse, Eigen::COLAMDOrdering<int>> lu;
+  lu.compute(a);
+  if (lu.info() != Eigen::Success) return false;
+  *y = lu.solve(bh);
   return y->allFinite();
 }
 
