@@ -103,6 +103,11 @@ class Run {
     period_ = f > 0 ? 1.0 / f : 0.0;
     s.period = period_;
     s.sample_used = sim.sample > 0 ? sim.sample : period_ > 0 ? period_ / 1024.0 : sim.stop / 10000.0;
+    // With a fundamental, the interval is made to divide the period exactly
+    // (20 us at 60 Hz becomes T/833), so that a window of whole cycles holds
+    // whole sample sets and the harmonic analysis has no leakage.
+    if (period_ > 0 && s.sample_used < period_)
+      s.sample_used = period_ / std::max(1.0, std::round(period_ / s.sample_used));
     s.max_step_used = sim.max_step > 0                ? sim.max_step
                       : period_ > 0                   ? period_ * options_.default_max_step_degrees / 360.0
                                                       : sim.stop / 1000.0;
@@ -324,15 +329,36 @@ class Run {
     Accumulate();  // IDAReInit below resets IDA's counters
     // Relax the parasitic fast modes (see MnaSystem::BackwardEulerStep) with
     // one tiny implicit step, then restart IDA from there.
-    const double h_relax = options_.events.relax_step_fraction * result_.summary.max_step_used;
+    double h_relax = options_.events.relax_step_fraction * result_.summary.max_step_used;
+    if (h_relax > 0 && t + h_relax < t_end_) {
+      double* y = N_VGetArrayPointer(y_.get());
+      std::string error;
+      // The step must not carry a valve across its switching threshold: in
+      // a circuit whose own commutations take microseconds (a stiff supply
+      // behind a few µH) a fixed fraction of the largest step can be longer
+      // than a whole commutation, and the crossing would go unlocated (IDA
+      // then restarts in a state it cannot integrate). A step that leaves a
+      // valve past its rule by more than twice the settling tolerance (a
+      // marginal valve is settled below) is retried at an eighth of its
+      // length, and dropped below 1e-9 of the largest step.
+      const std::vector<double> y_event(y, y + mna_.size());
+      while (true) {
+        if (!mna_.BackwardEulerStep(t, h_relax, y, &error)) {
+          Fail(error + ValveStateText());
+          return false;
+        }
+        if (WorstViolation(t + h_relax, y) <= 1.0) break;
+        std::copy(y_event.begin(), y_event.end(), y);
+        h_relax /= 8.0;
+        if (h_relax < 1e-9 * result_.summary.max_step_used) {
+          h_relax = 0.0;
+          break;
+        }
+      }
+    }
     if (h_relax > 0 && t + h_relax < t_end_) {
       double* y = N_VGetArrayPointer(y_.get());
       double* yp = N_VGetArrayPointer(yp_.get());
-      std::string error;
-      if (!mna_.BackwardEulerStep(t, h_relax, y, &error)) {
-        Fail(error + ValveStateText());
-        return false;
-      }
       t += h_relax;
       // The step moves the states a little: a valve that was marginal at the
       // event (a commutation ending on the leakage of the others' Roff) may
@@ -355,6 +381,21 @@ class Run {
     ArmStopTime(t);
     SetRootDirections();
     return true;
+  }
+
+  // The largest breach of a valve's rule at (t, y), in units of its
+  // settling tolerance ε (on needs i ≥ Ih − ε, armed-off needs v ≤ Vf + ε);
+  // zero or less when every valve keeps its rule.
+  double WorstViolation(double t, const double* y) const {
+    double worst = 0.0;
+    for (std::size_t k = 0; k < valves_.size(); ++k) {
+      const Valve& v = *valves_[k].valve;
+      const bool on = states_[v.switch_slot()];
+      if (!on && !Armed(static_cast<int>(k), t)) continue;
+      const double breach = on ? (v.params().i_h - v.Current(y)) / eps_i_ : (v.Voltage(y) - v.params().v_f) / eps_v_;
+      worst = std::max(worst, breach - 1.0);
+    }
+    return worst;
   }
 
   // Flips `flagged` valves, then settles the configuration (see header).
@@ -797,7 +838,9 @@ class Run {
         auto& s = result_.summary;
         s.steady_reached = true;
         s.steady_time = next_boundary_;
-        t_end_ = std::min(study_.simulate->stop, next_boundary_ + study_.steady->cycles * period_);
+        double until = next_boundary_ + study_.steady->cycles * period_;
+        if (study_.window) until = std::max(until, study_.window->to);  // a chosen window is recorded whole
+        t_end_ = std::min(study_.simulate->stop, until);
         if (t_end_ <= t) t_end_ = t;
         // A gate pulse due now is handled (and the stop time re-armed) by
         // the main loop right after this.
@@ -812,6 +855,11 @@ class Run {
   void FinishWindow() {
     auto& s = result_.summary;
     const double end = s.t_reached > 0 ? s.t_reached : 0.0;
+    if (study_.window) {  // chosen by the user; cut short if the run ended early
+      s.window_begin = std::min(study_.window->from, end);
+      s.window_end = std::min(study_.window->to, end);
+      return;
+    }
     s.window_end = end;
     if (period_ > 0) {
       const int cycles = study_.steady ? study_.steady->cycles : 1;
