@@ -3,13 +3,21 @@
 #include <fmt/format.h>
 
 #include <filesystem>
+#include <fstream>
+#include <sstream>
 
 #include "engine/simulator.h"
 #include "engine/topology.h"
 #include "parser/elaborate.h"
+#include "results/analysis.h"
+#include "results/analysis_json.h"
 #include "results/atomic_file.h"
+#include "results/case_recorder.h"
+#include "results/channels.h"
+#include "results/comtrade.h"
 #include "results/events.h"
-#include "results/recorder.h"
+#include "results/report.h"
+#include "results/svg_plot.h"
 #include "results/writers.h"
 
 namespace lcc {
@@ -76,15 +84,40 @@ int RunCommand(const RunCommandOptions& options, std::ostream& out, std::ostream
     return kExitInputError;
   }
 
-  ProbeRecorder recorder(design->study.probes);
-  RunResult run = Simulate(design->circuit, design->study, engine, recorder);
+  const Study& study = design->study;
+  const AnalysisChannels channels = BuildAnalysisChannels(design->circuit);
+  const double fundamental = study.steady && study.steady->frequency > 0 ? study.steady->frequency : study.fundamental;
+  const double sample = study.simulate->sample > 0 ? study.simulate->sample
+                        : fundamental > 0          ? 1.0 / fundamental / 1024.0
+                                                   : study.simulate->stop / 10000.0;
+  CaseRecorder recorder(study.probes, channels, AnalysisKeepSeconds(study, fundamental), sample,
+                        study.window ? study.window->from : 0.0, study.window ? study.window->to : 0.0);
+  RunResult run = Simulate(design->circuit, study, engine, recorder);
+  const CaseAnalysis analysis =
+      Analyse({case_name, options.netlist, topology.notes, &design->circuit, &study, &recorder, &run});
 
-  CaseOutput output{case_name, options.netlist, &design->circuit, &recorder, &run, topology.notes};
+  const auto& formats = options.formats;
+  const double period = run.summary.period;
   try {
-    WriteWaveformsCsv((case_dir / "waveforms.csv").string(), recorder);
+    const std::string base = (case_dir / "waveforms").string();
+    if (formats.count("csv")) WriteWaveformsCsv(base + ".csv", recorder.probes());
+    if (formats.count("comtrade"))
+      WriteComtrade(base, {"lccsim", case_name, period > 0 ? 1.0 / period : 0.0, run.summary.sample_used},
+                    recorder.probes());
+    if (formats.count("svg")) {
+      PlotOptions plot;
+      plot.title = fmt::format("{}: case {}", options.netlist, case_name);
+      plot.begin = run.summary.window_begin;
+      plot.end = run.summary.window_end;
+      if (!(plot.end > plot.begin)) plot.begin = 0.0, plot.end = std::max(run.summary.t_reached, 0.0);
+      WriteFileAtomically(base + ".svg", RenderWaveformsSvg(recorder.probes(), plot));
+    }
     WriteEventsCsv((case_dir / "events.csv").string(),
-                   EventLog(design->circuit, run, run.summary.period > 0 ? 1.0 / run.summary.period : 0.0));
-    WriteFileAtomically((case_dir / "report.txt").string(), FormatReport(output));
+                   EventLog(design->circuit, run, period > 0 ? 1.0 / period : 0.0));
+    WriteFileAtomically((case_dir / "analysis.json").string(), ToJson(analysis).dump(1) + "\n");
+    WriteFileAtomically((case_dir / "report.txt").string(), FormatReport(analysis));
+    if (formats.count("csv")) WriteSummaryCsv((fs::path(options.out_dir) / "summary.csv").string(), {analysis});
+    if (formats.count("json")) WriteSummaryJson((fs::path(options.out_dir) / "summary.json").string(), {analysis});
   } catch (const std::exception& e) {
     err << "lccsim: error: " << e.what() << "\n";
     return kExitSimulationFailed;
@@ -92,6 +125,30 @@ int RunCommand(const RunCommandOptions& options, std::ostream& out, std::ostream
   out << fmt::format("{}: {}\n", case_name, run.summary.BriefReport());
   out << fmt::format("results: {}\n", case_dir.string());
   return run.summary.status == RunSummary::Status::kCompleted ? kExitOk : kExitSimulationFailed;
+}
+
+int ReportCommand(const std::string& case_dir, std::ostream& out, std::ostream& err) {
+  const fs::path file = fs::path(case_dir) / "analysis.json";
+  std::ifstream in(file);
+  if (!in) {
+    err << fmt::format("lccsim: error: cannot read '{}': is '{}' the folder of a finished case?\n", file.string(),
+                       case_dir);
+    return kExitInputError;
+  }
+  try {
+    std::stringstream text;
+    text << in.rdbuf();
+    out << FormatReport(CaseAnalysisFromJson(nlohmann::json::parse(text.str())));
+  } catch (const std::exception& e) {
+    err << fmt::format("lccsim: error: {}: {}\n", file.string(), e.what());
+    return kExitInputError;
+  }
+  return kExitOk;
+}
+
+const std::set<std::string>& AllFormats() {
+  static const std::set<std::string> kAll{"csv", "json", "comtrade", "svg"};
+  return kAll;
 }
 
 }  // namespace lcc

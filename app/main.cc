@@ -21,6 +21,15 @@ int main(int argc, char** argv) {
                   "give up after this many seconds of wall-clock time per case (0: no limit)")
       ->capture_default_str();
 
+  std::vector<std::string> formats;
+  run->add_option("--formats", formats, "output formats among csv, json, comtrade, svg (default: all)")
+      ->delimiter(',')
+      ->check(CLI::IsMember(lcc::AllFormats()));
+
+  std::string report_dir;
+  auto* report = app.add_subcommand("report", "print the report of a finished case again, without simulating");
+  report->add_option("CASE_DIR", report_dir, "the case's output folder, e.g. out/base")->required();
+
   std::string check_file;
   auto* check = app.add_subcommand("check", "parse, elaborate and check a netlist; list nodes, elements, unknowns");
   check->add_option("FILE", check_file, "the netlist")->required();
@@ -32,7 +41,11 @@ int main(int argc, char** argv) {
     return code == 0 ? 0 : lcc::kExitInputError;
   }
   try {
-    if (*run) return lcc::RunCommand(run_options, std::cout, std::cerr);
+    if (*run) {
+      if (!formats.empty()) run_options.formats = {formats.begin(), formats.end()};
+      return lcc::RunCommand(run_options, std::cout, std::cerr);
+    }
+    if (*report) return lcc::ReportCommand(report_dir, std::cout, std::cerr);
     if (*check) return lcc::CheckCommand(check_file, std::cout, std::cerr);
   } catch (const std::exception& e) {
     std::cerr << "lccsim: internal error: " << e.what() << "\n";

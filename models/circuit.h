@@ -29,6 +29,32 @@ struct ValveGroup {
   std::string name;
   std::vector<int> devices;  // indices into devices()
   SourceLoc loc;
+  int ac[3] = {-1, -1, -1};  // AC terminal nodes (a, b, c)
+  int dc[2] = {-1, -1};      // DC terminal nodes (p, n)
+  int firing = -1;           // index into firings(); -1 for diodes
+};
+
+// A three-phase supply as written: what the reports need to know of it
+// (its phases are SourceBranch devices).
+struct SupplyGroup {
+  std::string name;
+  SourceLoc loc;
+  int terminals[3] = {-1, -1, -1};
+  int star = 0;              // node of the EMFs' star point (gnd unless given)
+  int devices[3] = {-1, -1, -1};
+  double vll = 0.0;          // V, rated line-to-line rms
+  double frequency = 0.0;    // Hz
+  double ssc = 0.0;          // VA, short-circuit power at the terminals (from Ssc or R, L)
+};
+
+// A transformer from its nameplate: ratings and the windings it became.
+struct TransformerGroup {
+  std::string name;
+  SourceLoc loc;
+  std::string vector_group;
+  double s_rated = 0.0, v1 = 0.0, v2 = 0.0, z = 0.0;
+  int hv[3] = {-1, -1, -1}, lv[3] = {-1, -1, -1};  // terminal nodes
+  std::vector<int> hv_windings, lv_windings;      // device indices
 };
 
 // A firing element: six gate pulse trains, pulse k starting alpha after
@@ -93,6 +119,10 @@ class Circuit {
   void AddAlias(const std::string& name, DeviceAlias alias) { aliases_[name] = alias; }
   void AddValveGroup(ValveGroup group) { valve_groups_.push_back(std::move(group)); }
   const std::vector<ValveGroup>& valve_groups() const { return valve_groups_; }
+  void AddSupply(SupplyGroup s) { supplies_.push_back(std::move(s)); }
+  const std::vector<SupplyGroup>& supplies() const { return supplies_; }
+  void AddTransformer(TransformerGroup t) { transformers_.push_back(std::move(t)); }
+  const std::vector<TransformerGroup>& transformers() const { return transformers_; }
   int AddFiring(Firing f) {
     firings_.push_back(std::move(f));
     return static_cast<int>(firings_.size()) - 1;
@@ -117,6 +147,8 @@ class Circuit {
   std::map<std::string, DeviceAlias> aliases_;
   std::vector<ValveGroup> valve_groups_;
   std::vector<Firing> firings_;
+  std::vector<SupplyGroup> supplies_;
+  std::vector<TransformerGroup> transformers_;
   std::set<int> star_points_;
   int num_unknowns_ = 0;
   int num_switch_slots_ = 0;

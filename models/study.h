@@ -28,6 +28,22 @@ struct SteadySpec {
   SourceLoc loc;
 };
 
+// An analysis window chosen by the user (transient cases).
+struct WindowSpec {
+  double from = 0.0;  // s
+  double to = 0.0;    // s
+  SourceLoc loc;
+};
+
+// An IEEE Std 519-2014 check at the terminals of a supply.
+struct PccSpec {
+  std::string supply;    // the supply's name
+  int supply_index = -1; // into Circuit::supplies()
+  double il = 0.0;       // A, maximum demand load current (0: this case's fundamental)
+  int pulses = 6;        // converter pulse number (§5.5 allowance above 6)
+  SourceLoc loc;
+};
+
 // A probe: a program over signal slots, each slot a linear form of (y, y').
 struct Probe {
   std::string name;
@@ -41,6 +57,8 @@ struct Probe {
 struct Study {
   std::optional<SimulateSpec> simulate;
   std::optional<SteadySpec> steady;
+  std::optional<WindowSpec> window;
+  std::vector<PccSpec> pccs;
   std::vector<Probe> probes;
   double fundamental = 0.0;   // Hz: the frequency of the first periodic source, 0 if none
 };

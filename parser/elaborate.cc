@@ -155,6 +155,17 @@ class Elaborator {
         diags_.Error(where, fmt::format("probe '{}' is not a current", f.regulate));
       }
     }
+    for (PccSpec pcc : pending_pccs_) {
+      const auto& supplies = design_.circuit.supplies();
+      for (std::size_t k = 0; k < supplies.size(); ++k)
+        if (supplies[k].name == pcc.supply) pcc.supply_index = static_cast<int>(k);
+      if (pcc.supply_index < 0) {
+        diags_.Error(pcc.loc, fmt::format("no supply named '{}'", pcc.supply),
+                     "the point of common coupling is the terminals of a supply element");
+        continue;
+      }
+      design_.study.pccs.push_back(pcc);
+    }
     if (design_.study.steady && design_.study.steady->frequency == 0.0) {
       if (design_.study.fundamental > 0) {
         design_.study.steady->frequency = design_.study.fundamental;
@@ -178,7 +189,7 @@ class Elaborator {
     if (kw == "param") return Param(s, file);
     if (kw == "include") return Include(s, file);
     if (kw == "probe") return ProbeStatement(s, file);
-    if (kw == "simulate" || kw == "steady") return StudyStatement(s, file);
+    if (kw == "simulate" || kw == "steady" || kw == "window" || kw == "pcc") return StudyStatement(s, file);
     if (const KindSpec* kind = FindElementKind(kw)) return Element(*kind, s, file);
     static const std::set<std::string> kLater{"case", "sweep", "define", "at", "set"};
     if (kLater.count(kw)) {
@@ -187,7 +198,7 @@ class Elaborator {
     }
     Error(file, s.keyword.offset, fmt::format("unknown kind or statement '{}'", kw),
           "element kinds are " + KindList() +
-              "; statements are param, include, simulate, steady, probe");
+              "; statements are param, include, simulate, steady, window, pcc, probe");
   }
 
   // A statement of the form `keyword NAME = value` (param, probe).
@@ -294,6 +305,29 @@ class Elaborator {
       sim.periodic_start = set.words["start"] != "zero";
       sim.loc = loc;
       design_.study.simulate = sim;
+    } else if (spec->name == "window") {
+      if (design_.study.window) {
+        Error(file, s.keyword.offset, "a second window statement");
+        diags_.Note(design_.study.window->loc, "the first is here");
+        return;
+      }
+      WindowSpec win{set.number("from"), set.number("to"), loc};
+      if (win.to <= win.from) {
+        diags_.Error(set.where.at("to"), "the window must end after it begins");
+        return;
+      }
+      design_.study.window = win;
+    } else if (spec->name == "pcc") {
+      PccSpec pcc;
+      pcc.supply = set.words.at("at");
+      pcc.il = set.number("IL");
+      pcc.pulses = static_cast<int>(set.number("pulses", 6));
+      pcc.loc = set.where.at("at");
+      if (pcc.pulses % 6 != 0) {
+        diags_.Error(set.where.at("pulses"), "the pulse number of a converter is a multiple of 6");
+        return;
+      }
+      pending_pccs_.push_back(pcc);
     } else {
       if (design_.study.steady) {
         Error(file, s.keyword.offset, "a second steady statement");
@@ -613,6 +647,19 @@ class Elaborator {
       line_alias(hv_w, hv_term[k], fmt::format("{}.{}", name, hv_port[k]));
       line_alias(lv_w, lv_term[k], fmt::format("{}.{}", name, phase[k]));
     }
+    TransformerGroup info{name, loc, group_name, S, set.number("V1"), set.number("V2"), set.number("z")};
+    for (int k = 0; k < 3; ++k) {
+      info.hv[k] = hv_term[k];
+      info.lv[k] = lv_term[k];
+    }
+    auto index_of = [&](const Winding* wd) {
+      for (std::size_t d = 0; d < c.devices().size(); ++d)
+        if (c.devices()[d].get() == wd) return static_cast<int>(d);
+      return -1;
+    };
+    for (const Winding* wd : hv_w) info.hv_windings.push_back(index_of(wd));
+    for (const Winding* wd : lv_w) info.lv_windings.push_back(index_of(wd));
+    c.AddTransformer(std::move(info));
   }
 
   std::optional<Waveform> SourceWaveform(const KindSpec& kind, const ast::Statement& s,
@@ -698,6 +745,9 @@ class Elaborator {
     for (const auto& [key, value] : set.numbers)
       if (int n = HarmonicOrder(key)) harmonics.emplace_back(n, value);
 
+    SupplyGroup group{name, loc, {}, star, {}, vll, f, 0.0};
+    const double zs = std::hypot(r, w * l);
+    group.ssc = zs > 0 ? vll * vll / zs : 0.0;  // 0: an ideal source
     const char* phases[3] = {"a", "b", "c"};
     for (int k = 0; k < 3; ++k) {
       const double shift = -k * 2.0 * std::numbers::pi / 3.0;
@@ -711,7 +761,10 @@ class Elaborator {
       auto& branch = design_.circuit.Add(
           std::make_unique<SourceBranch>(name + "." + ph, loc, star, terminal, e, r, l));
       design_.circuit.AddAlias(name + "." + ph, {{{&branch, 1.0}}});
+      group.terminals[k] = terminal;
+      group.devices[k] = static_cast<int>(design_.circuit.devices().size()) - 1;
     }
+    design_.circuit.AddSupply(std::move(group));
   }
 
   // Valves in the trade's conduction order: 1 a→p, 2 n→c, 3 b→p, 4 n→a,
@@ -755,7 +808,7 @@ class Elaborator {
     const int a = node(ac[0]), b = node(ac[1]), cc = node(ac[2]), pos = node(dc[0]), neg = node(dc[1]);
     const int anode[6] = {a, neg, b, neg, cc, neg};
     const int cathode[6] = {pos, cc, pos, a, pos, b};
-    ValveGroup group{name, {}, loc};
+    ValveGroup group{name, {}, loc, {a, b, cc}, {pos, neg}, firing};
     for (int k = 0; k < 6; ++k) {
       const std::string vname = fmt::format("{}[{}]", name, k + 1);
       group.devices.push_back(static_cast<int>(c.devices().size()));
@@ -1086,6 +1139,7 @@ class Elaborator {
   std::map<std::string, SourceLoc> names_;
   std::map<std::string, SourceLoc> probe_names_;
   std::vector<PendingProbe> probes_;
+  std::vector<PccSpec> pending_pccs_;  // resolved once every supply is known
   std::vector<std::string> include_stack_;
 
   struct CoreUse {

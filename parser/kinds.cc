@@ -211,6 +211,15 @@ const std::vector<KindSpec>& StudyStatements() {
                   Num("settle_max", dims::kTime, std::nullopt, kPos, "give up waiting for steady state after this time (default: stop)"),
                   Num("f", dims::kFrequency, std::nullopt, kPos, "fundamental frequency (default: that of the first periodic source)")},
                  "periodic steady state"});
+    s.push_back({"window", {},
+                 {Num("from", dims::kTime, std::nullopt, Constraint::kNonNegative, "start of the analysis window", true),
+                  Num("to", dims::kTime, std::nullopt, kPos, "end of the analysis window", true)},
+                 "the analysis window of a transient case"});
+    s.push_back({"pcc", {},
+                 {Name("at", true, "the supply whose terminals are the point of common coupling"),
+                  Num("IL", dims::kCurrent, std::nullopt, kPos, "maximum demand load current, fundamental rms (default: this case's)"),
+                  Num("pulses", dims::kNone, 6.0, Constraint::kPositiveInteger, "pulse number of the converter, for the IEEE 519 §5.5 allowance")},
+                 "an IEEE Std 519-2014 harmonic check at a supply's terminals"});
     return s;
   }();
   return kStatements;

@@ -6,6 +6,8 @@
 // any periodic waveform that is a trigonometric polynomial of order below N/2.
 #pragma once
 
+#include <algorithm>
+#include <cmath>
 #include <vector>
 
 namespace lcc {
@@ -16,6 +18,16 @@ struct WindowStats {
   double rms = 0.0;    // sqrt((1/N)·Σ x_k²)
   double min = 0.0;
   double max = 0.0;
+
+  // Derived figures (zero where the mean is zero and a ratio is undefined).
+  double peak() const { return std::max(std::abs(min), std::abs(max)); }
+  double ripple_pp() const { return max - min; }
+  // rms of the AC part, sqrt(rms² − mean²).
+  double ripple_rms() const { return std::sqrt(std::max(rms * rms - mean * mean, 0.0)); }
+  // Ripple factor = ripple rms / |mean|; form factor = rms / |mean|
+  // (e.g. Rashid, Power Electronics, 3rd ed., Ch. 3 definitions).
+  double ripple_factor() const { return mean != 0.0 ? ripple_rms() / std::abs(mean) : 0.0; }
+  double form_factor() const { return mean != 0.0 ? rms / std::abs(mean) : 0.0; }
 };
 
 // Statistics of x over the samples whose time lies in [begin, end); the

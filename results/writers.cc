@@ -2,19 +2,76 @@
 
 #include <fmt/format.h>
 
-#include <numbers>
+#include <map>
 
+#include "results/analysis_json.h"
 #include "results/atomic_file.h"
-#include "results/commutation.h"
-#include "results/measures.h"
+#include "results/report.h"
 
 namespace lcc {
+namespace {
 
-const char* EngineeringCaution() {
-  return "Results are engineering estimates from a circuit model. Check them against the\n"
-         "applicable codes, the manufacturers' data and a licensed engineer's review before\n"
-         "they inform a decision about equipment or safety.";
+std::string Num(double v) { return fmt::format("{:.9g}", v); }
+
+// Quotes a CSV field if it needs it (RFC 4180).
+std::string CsvField(const std::string& s) {
+  if (s.find_first_of(",\"\n") == std::string::npos) return s;
+  std::string q = "\"";
+  for (char c : s) {
+    if (c == '"') q += '"';
+    q += c;
+  }
+  return q + "\"";
 }
+
+// One case's (column, value) pairs in their natural order.
+std::vector<std::pair<std::string, std::string>> SummaryCells(const CaseAnalysis& a) {
+  std::vector<std::pair<std::string, std::string>> c;
+  c.emplace_back("case", a.case_name);
+  c.emplace_back("status", a.run.status);
+  c.emplace_back("reason", a.run.message);
+  c.emplace_back("steady", a.run.steady_reached ? "yes" : "no");
+  c.emplace_back("window begin [s]", Num(a.window_begin_s));
+  c.emplace_back("window end [s]", Num(a.window_end_s));
+  for (const auto& p : a.probes) {
+    const std::string u = p.stats.unit;
+    c.emplace_back(fmt::format("{} mean [{}]", p.name, u), Num(p.stats.mean));
+    c.emplace_back(fmt::format("{} rms [{}]", p.name, u), Num(p.stats.rms));
+    c.emplace_back(fmt::format("{} peak [{}]", p.name, u), Num(p.stats.peak));
+    c.emplace_back(fmt::format("{} ripple p-p [{}]", p.name, u), Num(p.stats.ripple_pp));
+  }
+  for (const auto& b : a.bridges) {
+    c.emplace_back(b.name + " Vd [V]", Num(b.vd.mean));
+    c.emplace_back(b.name + " Id [A]", Num(b.id.mean));
+    c.emplace_back(b.name + " Pd [W]", Num(b.pd_W));
+    c.emplace_back(b.name + " Vd ripple p-p [V]", Num(b.vd.ripple_pp));
+    c.emplace_back(b.name + " alpha [deg]", Num(b.alpha_deg));
+    c.emplace_back(b.name + " Vd closed form [V]", Num(b.vd_closed_form_V));
+    c.emplace_back(b.name + " Vd difference [%]", Num(b.vd_difference_pct));
+    c.emplace_back(b.name + " overlap [deg]", b.overlap_deg >= 0 ? Num(b.overlap_deg) : "");
+    c.emplace_back(b.name + " overlap closed form [deg]",
+                   b.overlap_closed_form_deg >= 0 ? Num(b.overlap_closed_form_deg) : "");
+    double ipk = 0;
+    for (const auto& v : b.valves) ipk = std::max(ipk, v.i_peak_A);
+    c.emplace_back(b.name + " valve peak current [A]", Num(ipk));
+  }
+  for (const auto& p : a.ac_points) {
+    c.emplace_back(p.name + " I1 [A]", Num(p.i1_A));
+    c.emplace_back(p.name + " THD [%]", Num(p.thd_pct));
+    c.emplace_back(p.name + " TDD [%]", Num(p.tdd_pct));
+    c.emplace_back(p.name + " voltage THD [%]", Num(p.voltage_thd_pct));
+    c.emplace_back(p.name + " P [W]", Num(p.p_W));
+    c.emplace_back(p.name + " Q1 [var]", Num(p.q1_var));
+    c.emplace_back(p.name + " S [VA]", Num(p.s_VA));
+    c.emplace_back(p.name + " displacement factor [1]", Num(p.displacement_factor));
+    c.emplace_back(p.name + " power factor [1]", Num(p.power_factor));
+  }
+  for (const auto& k : a.ieee519) c.emplace_back(k.pcc + " IEEE 519 [pass/fail]", k.pass ? "pass" : "fail");
+  for (const auto& f : a.firings) c.emplace_back(f.name + " alpha [deg]", Num(f.alpha_end_deg));
+  return c;
+}
+
+}  // namespace
 
 void WriteWaveformsCsv(const std::string& path, const ProbeRecorder& recorder) {
   AtomicFile file(path);
@@ -35,77 +92,42 @@ void WriteWaveformsCsv(const std::string& path, const ProbeRecorder& recorder) {
   file.Commit();
 }
 
-std::string FormatReport(const CaseOutput& o) {
-  const RunSummary& s = o.run->summary;
-  std::string out;
-  out += fmt::format("lccsim report: case '{}'\n", o.case_name);
-  out += fmt::format("netlist: {}\n\n", o.netlist_path);
-  out += "CAUTION\n";
-  out += EngineeringCaution();
-  out += "\n\n";
-  if (s.status == RunSummary::Status::kFailed) {
-    out += fmt::format("THE SIMULATION FAILED: {}\n", s.message);
-    out += "The waveforms were kept up to that time and are partial.\n\n";
+SummaryTable BuildSummaryTable(const std::vector<CaseAnalysis>& cases) {
+  SummaryTable t;
+  std::map<std::string, std::size_t> index;
+  std::vector<std::vector<std::pair<std::string, std::string>>> cells;
+  for (const auto& a : cases) {
+    cells.push_back(SummaryCells(a));
+    for (const auto& [col, value] : cells.back())
+      if (index.emplace(col, t.columns.size()).second) t.columns.push_back(col);
   }
-  if (s.steady_requested && !s.steady_reached)
-    out += "Steady state was NOT reached; the figures below are over the last cycles simulated.\n\n";
-  for (const auto& note : o.notes) out += "note: " + note + "\n";
-  if (!o.notes.empty()) out += "\n";
+  for (const auto& row_cells : cells) {
+    std::vector<std::string> row(t.columns.size());
+    for (const auto& [col, value] : row_cells) row[index[col]] = value;
+    t.rows.push_back(std::move(row));
+  }
+  return t;
+}
 
-  out += fmt::format("Probes over {:.6g} s .. {:.6g} s", s.window_begin, s.window_end);
-  if (s.period > 0) out += fmt::format(" ({:.4g} cycles)", (s.window_end - s.window_begin) / s.period);
-  out += "\n";
-  out += fmt::format("  {:<16} {:>6} {:>14} {:>14} {:>14} {:>14}\n", "probe", "unit", "mean", "rms", "min", "max");
-  const auto& probes = o.recorder->probes();
-  for (std::size_t k = 0; k < probes.size(); ++k) {
-    WindowStats w = Measure(o.recorder->time(), o.recorder->columns()[k], s.window_begin, s.window_end);
-    out += fmt::format("  {:<16} {:>6} {:>14.6g} {:>14.6g} {:>14.6g} {:>14.6g}\n", probes[k].name,
-                       probes[k].unit(), w.mean, w.rms, w.min, w.max);
+void WriteSummaryCsv(const std::string& path, const std::vector<CaseAnalysis>& cases) {
+  const SummaryTable t = BuildSummaryTable(cases);
+  std::string text;
+  for (std::size_t k = 0; k < t.columns.size(); ++k) text += (k ? "," : "") + CsvField(t.columns[k]);
+  text += '\n';
+  for (const auto& row : t.rows) {
+    for (std::size_t k = 0; k < row.size(); ++k) text += (k ? "," : "") + CsvField(row[k]);
+    text += '\n';
   }
-  out += "\n";
+  WriteFileAtomically(path, text);
+}
 
-  if (s.period > 0 && !o.circuit->valve_groups().empty()) {
-    out += "Bridges: commutation overlap in the window\n";
-    for (const auto& g : o.circuit->valve_groups()) {
-      auto list = BridgeCommutations(g, o.run->events, 1.0 / s.period, s.window_begin, s.window_end);
-      if (list.empty()) {
-        out += fmt::format("  {:<16} no complete commutation\n", g.name);
-        continue;
-      }
-      double sum = 0, lo = 1e300, hi = -1e300;
-      for (const auto& c : list) {
-        sum += c.overlap;
-        lo = std::min(lo, c.overlap);
-        hi = std::max(hi, c.overlap);
-      }
-      const double deg = 180.0 / std::numbers::pi;
-      out += fmt::format("  {:<16} {} commutations, overlap mean {:.3f} deg (min {:.3f}, max {:.3f})\n", g.name,
-                         list.size(), sum / list.size() * deg, lo * deg, hi * deg);
-    }
-    out += "\n";
-  }
-  if (!o.circuit->firings().empty()) {
-    out += "Firing\n";
-    const auto& firings = o.circuit->firings();
-    for (std::size_t f = 0; f < firings.size(); ++f) {
-      const Firing& fr = firings[f];
-      const double alpha = f < o.run->final_alpha.size() ? o.run->final_alpha[f] : fr.alpha;
-      out += fmt::format("  {:<16} alpha at the end {:.3f} deg", fr.name, alpha * 180.0 / std::numbers::pi);
-      if (fr.regulate_probe >= 0) {
-        const auto& column = o.recorder->columns()[fr.regulate_probe];
-        const WindowStats w = Measure(o.recorder->time(), column, s.window_begin, s.window_end);
-        const double settle = s.period > 0 ? SettlingTime(o.recorder->time(), column, fr.target, 0.01, s.period) : -1;
-        out += fmt::format("; regulates {} to {:.6g} A: mean {:.6g} A ({:+.3f} %), ", fr.regulate, fr.target, w.mean,
-                           100.0 * (w.mean - fr.target) / fr.target);
-        out += settle >= 0 ? fmt::format("within 1 % from {:.4g} s", settle) : std::string("not settled within 1 %");
-      }
-      out += "\n";
-    }
-    out += "\n";
-  }
-  out += "Run statistics\n";
-  out += s.FullReport();
-  return out;
+void WriteSummaryJson(const std::string& path, const std::vector<CaseAnalysis>& cases) {
+  nlohmann::json j;
+  j["format"] = "lccsim summary 1";
+  j["caution"] = EngineeringCaution();
+  j["cases"] = nlohmann::json::array();
+  for (const auto& a : cases) j["cases"].push_back(ToJson(a));
+  WriteFileAtomically(path, j.dump(1) + "\n");
 }
 
 }  // namespace lcc

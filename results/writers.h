@@ -1,36 +1,32 @@
-// Output files of one case.
+// Output files of one case and of a batch.
 //
-//   waveforms.csv  first column `time [s]`, then one column per probe named
-//                  `NAME [unit]`; one row per output sample.
-//   report.txt     the readable report: what was run, the analysis window,
-//                  per probe mean, rms, min and max over the recorded
-//                  cycles, the bridges' commutation overlap, the run
-//                  statistics, and the engineering cautions.
-// Both are written atomically (results/atomic_file.h).
+//   CASE/waveforms.csv  first column `time [s]`, then one column per probe
+//                       named `NAME [unit]`; one row per output sample.
+//   summary.csv         one row per case: status, window, and the main
+//                       figures (probes, bridges, AC points, IEEE 519), each
+//                       column headed `NAME [unit]`; columns in a stable
+//                       order (first appearance over the cases).
+//   summary.json        every case's full CaseAnalysis, units in the names.
+// All are written atomically (results/atomic_file.h).
 #pragma once
 
 #include <string>
 #include <vector>
 
-#include "engine/simulator.h"
-#include "models/circuit.h"
+#include "results/analysis.h"
 #include "results/recorder.h"
 
 namespace lcc {
 
-struct CaseOutput {
-  std::string case_name;
-  std::string netlist_path;
-  const Circuit* circuit = nullptr;
-  const ProbeRecorder* recorder = nullptr;
-  const RunResult* run = nullptr;
-  std::vector<std::string> notes;  // e.g. automatic references added by the checks
-};
-
 void WriteWaveformsCsv(const std::string& path, const ProbeRecorder& recorder);
-std::string FormatReport(const CaseOutput& output);
+void WriteSummaryCsv(const std::string& path, const std::vector<CaseAnalysis>& cases);
+void WriteSummaryJson(const std::string& path, const std::vector<CaseAnalysis>& cases);
 
-// The caution printed at the top of every report (and in the README).
-const char* EngineeringCaution();
+// The summary table as (header, rows) — what WriteSummaryCsv writes.
+struct SummaryTable {
+  std::vector<std::string> columns;
+  std::vector<std::vector<std::string>> rows;
+};
+SummaryTable BuildSummaryTable(const std::vector<CaseAnalysis>& cases);
 
 }  // namespace lcc

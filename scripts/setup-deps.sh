@@ -7,6 +7,7 @@ packages=(
   cmake g++ ninja-build pkg-config
   libeigen3-dev libsundials-dev libboost-dev
   catch2 libcli11-dev libfmt-dev nlohmann-json3-dev libfftw3-dev
+  librsvg2-bin libxml2-utils zlib1g-dev
 )
 
 missing=()

@@ -52,7 +52,8 @@ TEST_CASE("RunWritesWaveformsAndAReportUnderBase", "[app]") {
   REQUIRE(report.find("licensed engineer") != std::string::npos);
   REQUIRE(report.find("steady state              reached") != std::string::npos);
   REQUIRE(report.find("integration steps") != std::string::npos);
-  REQUIRE(report.find("Bridges: commutation overlap") != std::string::npos);
+  REQUIRE(report.find("Bridge B (diodes)") != std::string::npos);
+  REQUIRE(report.find("closed form") != std::string::npos);
   // No temporary files are left behind.
   for (const auto& entry : fs::directory_iterator(out / "base"))
     REQUIRE(entry.path().filename().string().find("partial") == std::string::npos);

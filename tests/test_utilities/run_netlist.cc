@@ -4,6 +4,9 @@
 #include <cmath>
 #include <stdexcept>
 
+#include "results/case_recorder.h"
+#include "results/channels.h"
+
 namespace lcc::testing {
 
 int SimulatedCase::ProbeIndex(const std::string& name) const {
@@ -57,6 +60,39 @@ SimulatedCase Simulate(const std::string& text, const EngineOptions& options) {
   REQUIRE(c.run.summary.status == RunSummary::Status::kCompleted);
   return c;
 }
+
+CaseAnalysis AnalyseText(const std::string& text, const EngineOptions& options) {
+  Diagnostics diags;
+  auto design = ElaborateText("test.lcc", text, diags);
+  if (design) CheckTopology(design->circuit, diags);
+  INFO(diags.Format());
+  REQUIRE_FALSE(diags.has_errors());
+  const Study& study = design->study;
+  const AnalysisChannels channels = BuildAnalysisChannels(design->circuit);
+  const double f = study.steady && study.steady->frequency > 0 ? study.steady->frequency : study.fundamental;
+  const double sample = study.simulate->sample > 0 ? study.simulate->sample : 1.0 / f / 1024.0;
+  CaseRecorder recorder(study.probes, channels, AnalysisKeepSeconds(study, f), sample,
+                        study.window ? study.window->from : 0.0, study.window ? study.window->to : 0.0);
+  RunResult run = lcc::Simulate(design->circuit, study, options, recorder);
+  INFO(run.summary.FullReport());
+  REQUIRE(run.summary.status == RunSummary::Status::kCompleted);
+  return Analyse({"test", "test.lcc", {}, &design->circuit, &study, &recorder, &run});
+}
+
+const BridgeFigures& BridgeNamed(const CaseAnalysis& a, const std::string& name) {
+  for (const auto& b : a.bridges)
+    if (b.name == name) return b;
+  throw std::runtime_error("no bridge " + name);
+}
+
+const AcPointFigures& AcPointNamed(const CaseAnalysis& a, const std::string& name) {
+  for (const auto& p : a.ac_points)
+    if (p.name == name) return p;
+  throw std::runtime_error("no AC point " + name);
+}
+
+double HarmonicPercent(const AcPointFigures& p, int h) { return p.current_harmonics.at(h - 1).percent; }
+double HarmonicRms(const AcPointFigures& p, int h) { return p.current_harmonics.at(h - 1).rms; }
 
 std::string DiagnosticsOf(const std::string& text, const std::string& name) {
   Diagnostics diags;

@@ -9,6 +9,7 @@
 #include "engine/simulator.h"
 #include "engine/topology.h"
 #include "parser/elaborate.h"
+#include "results/analysis.h"
 #include "results/measures.h"
 #include "results/recorder.h"
 
@@ -35,6 +36,16 @@ std::complex<double> Harmonic(const SimulatedCase& c, const std::string& probe, 
 
 // Elaborates, checks and simulates; REQUIREs that each stage succeeds.
 SimulatedCase Simulate(const std::string& text, const EngineOptions& options = {});
+
+// Elaborates, simulates and analyses as `lccsim run` does; REQUIREs that
+// the run completes.
+CaseAnalysis AnalyseText(const std::string& text, const EngineOptions& options = {});
+
+// The figures of one bridge or AC point by name (throws if absent).
+const BridgeFigures& BridgeNamed(const CaseAnalysis& a, const std::string& name);
+const AcPointFigures& AcPointNamed(const CaseAnalysis& a, const std::string& name);
+double HarmonicPercent(const AcPointFigures& p, int h);  // % of I1
+double HarmonicRms(const AcPointFigures& p, int h);
 
 // Elaborates and checks only; returns the rendered diagnostics (empty if none).
 std::string DiagnosticsOf(const std::string& text, const std::string& name = "test.lcc");

@@ -1,0 +1,340 @@
+#include "results/analysis.h"
+
+#include <chrono>
+#include <cmath>
+#include <complex>
+#include <numbers>
+#include <optional>
+#include <span>
+
+#include "results/closed_forms.h"
+#include "results/commutation.h"
+#include "results/harmonics.h"
+
+namespace lcc {
+namespace {
+
+constexpr double kDeg = 180.0 / std::numbers::pi;
+constexpr int kMaxOrder = 50;
+
+WindowStats StatsOfColumn(std::span<const double> x) {
+  WindowStats s;
+  double sum = 0, sum2 = 0;
+  for (double v : x) {
+    if (s.samples == 0) s.min = s.max = v;
+    s.min = std::min(s.min, v);
+    s.max = std::max(s.max, v);
+    sum += v;
+    sum2 += v * v;
+    ++s.samples;
+  }
+  if (s.samples) {
+    s.mean = sum / s.samples;
+    s.rms = std::sqrt(sum2 / s.samples);
+  }
+  return s;
+}
+
+RunFigures RunFiguresOf(const RunSummary& s) {
+  RunFigures r;
+  r.status = s.status == RunSummary::Status::kCompleted ? "completed"
+             : s.status == RunSummary::Status::kFailed  ? "failed"
+                                                         : "not run";
+  r.message = s.message;
+  r.steady_requested = s.steady_requested;
+  r.steady_reached = s.steady_reached;
+  r.steady_time_s = s.steady_time;
+  r.t_reached_s = s.t_reached;
+  r.period_s = s.period;
+  r.steps = s.steps;
+  r.events = s.events;
+  r.switchings = s.switchings;
+  r.samples = s.samples;
+  r.wall_s = s.wall_seconds;
+  r.statistics = s.FullReport();
+  return r;
+}
+
+// Everything computed from the channel window.
+class WindowAnalysis {
+ public:
+  WindowAnalysis(const AnalysisInput& in, CaseAnalysis* out) : in_(in), out_(*out) {
+    const RunSummary& s = in.run->summary;
+    period_ = s.period;
+    omega_ = period_ > 0 ? 2.0 * std::numbers::pi / period_ : 0.0;
+    window_ = in.recorder->Extract(s.window_begin, s.window_end);
+    const int n = static_cast<int>(window_.t.size());
+    cycles_ = out_.window_cycles;
+    spectra_ok_ = cycles_ >= 1 && n >= 2 * cycles_ && n % cycles_ == 0;
+    dt_ = n >= 2 ? window_.t[1] - window_.t[0] : 0.0;
+  }
+
+  void Run() {
+    const auto& ch = in_.recorder->channels();
+    if (window_.t.empty()) return;
+    for (const auto& b : ch.bridges) out_.bridges.push_back(Bridge(b));
+    for (const auto& p : ch.ac_points) out_.ac_points.push_back(AcPoint(p));
+    for (const auto& pcc : in_.study->pccs) Pcc(pcc);
+  }
+
+ private:
+  std::span<const double> Col(int c) const { return window_.columns[c]; }
+  // Statistics of a channel, computed once.
+  const WindowStats& ChannelStats(int c) {
+    if (stats_.empty()) stats_.resize(window_.columns.size());
+    if (!stats_[c]) stats_[c] = StatsOfColumn(Col(c));
+    return *stats_[c];
+  }
+
+  Spectrum SpectrumOf(int c) const {
+    return AnalyseHarmonics(Col(c).data(), static_cast<int>(Col(c).size()), cycles_, kMaxOrder);
+  }
+
+  double ValveOnTime(int device) const {
+    const double b = in_.run->summary.window_begin, e = in_.run->summary.window_end;
+    bool on = false;
+    double since = b, total = 0.0;
+    for (const auto& ev : in_.run->events) {
+      if (ev.device != device) continue;
+      if (ev.t < b) {
+        on = ev.on;
+        continue;
+      }
+      if (ev.t >= e) break;
+      if (on && !ev.on) total += ev.t - since;
+      if (!on && ev.on) since = ev.t;
+      on = ev.on;
+    }
+    if (on) total += e - std::max(since, b);
+    return total;
+  }
+
+  BridgeFigures Bridge(const BridgeChannels& bc) {
+    const Circuit& c = *in_.circuit;
+    const ValveGroup& g = c.valve_groups()[bc.group];
+    BridgeFigures f;
+    f.name = g.name;
+    f.valve = g.firing >= 0 ? "thyristor" : "diode";
+    const WindowStats vd = ChannelStats(bc.vd), id = ChannelStats(bc.id);
+    f.vd = StatsOf(vd, "V");
+    f.id = StatsOf(id, "A");
+    double p = 0.0;
+    for (std::size_t k = 0; k < Col(bc.vd).size(); ++k) p += Col(bc.vd)[k] * Col(bc.id)[k];
+    f.pd_W = p / Col(bc.vd).size();
+    if (spectra_ok_) {
+      const Spectrum s = SpectrumOf(bc.vd);
+      for (int h = 1; h <= s.max_order(); ++h)
+        if (s.rms(h) > f.ripple_order_rms_V) {
+          f.ripple_order_rms_V = s.rms(h);
+          f.ripple_order = h;
+        }
+    }
+    const auto& alphas = in_.run->final_alpha;
+    const double alpha = g.firing >= 0 && g.firing < static_cast<int>(alphas.size()) ? alphas[g.firing] : 0.0;
+    f.alpha_deg = alpha * kDeg;
+
+    const double frequency = period_ > 0 ? 1.0 / period_ : 0.0;
+    if (commutating_.empty()) commutating_ = FindCommutatingCircuits(c, frequency);
+    const CommutatingCircuit& cc = commutating_[bc.group];
+    if (cc.valid) {
+      f.vll_V = cc.vll;
+      f.ls_H = cc.ls;
+      f.rs_ohm = cc.rs;
+      f.vdo_V = IdealNoLoadVoltage(cc.vll);
+      f.vd_closed_form_V = ClosedFormVd(cc.vll, alpha, omega_, cc.ls, id.mean);
+      if (f.vd_closed_form_V != 0.0)
+        f.vd_difference_pct = 100.0 * (vd.mean - f.vd_closed_form_V) / std::abs(f.vd_closed_form_V);
+      const double mu = ClosedFormOverlap(cc.vll, alpha, omega_, cc.ls, id.mean);
+      f.overlap_closed_form_deg = mu >= 0 ? mu * kDeg : -1.0;
+    }
+
+    const RunSummary& s = in_.run->summary;
+    const auto commutations = period_ > 0 ? BridgeCommutations(g, in_.run->events, frequency, s.window_begin,
+                                                                s.window_end)
+                                          : std::vector<Commutation>{};
+    if (!commutations.empty()) {
+      double sum = 0;
+      for (const auto& cm : commutations) sum += cm.overlap;
+      f.overlap_deg = sum / commutations.size() * kDeg;
+    }
+    const double blocking_current = 1e-3 * std::max(id.max, 1e-9);
+    for (int k = 0; k < 6; ++k) {
+      const int dev = g.devices[k];
+      const auto i = Col(bc.valve_i[k]);
+      const auto v = Col(bc.valve_v[k]);
+      ValveFigures vf;
+      vf.name = c.devices()[dev]->name();
+      const WindowStats& is = ChannelStats(bc.valve_i[k]);
+      vf.i_mean_A = is.mean;
+      vf.i_rms_A = is.rms;
+      vf.i_peak_A = is.max;
+      for (std::size_t m = 0; m < v.size(); ++m) {
+        vf.v_reverse_peak_V = std::max(vf.v_reverse_peak_V, -v[m]);
+        if (std::abs(i[m]) < blocking_current) vf.v_forward_peak_V = std::max(vf.v_forward_peak_V, v[m]);
+        vf.i2t_A2s += i[m] * i[m] * dt_;
+        if (m + 1 < i.size() && dt_ > 0) vf.didt_max_A_per_s = std::max(vf.didt_max_A_per_s, (i[m + 1] - i[m]) / dt_);
+      }
+      if (period_ > 0 && cycles_ > 0) vf.conduction_deg = ValveOnTime(dev) / (cycles_ * period_) * 360.0;
+      double sum = 0;
+      int n = 0;
+      for (const auto& cm : commutations)
+        if (cm.incoming == k + 1) {
+          sum += cm.overlap;
+          ++n;
+        }
+      if (n) vf.overlap_deg = sum / n * kDeg;
+      for (const auto& fv : in_.run->forward_voltage)
+        if (fv.device == dev && fv.t >= s.window_begin && fv.t < s.window_end) {
+          const double gamma = omega_ * (fv.t - fv.t_off) * kDeg;
+          vf.extinction_min_deg = vf.extinction_min_deg < 0 ? gamma : std::min(vf.extinction_min_deg, gamma);
+        }
+      f.valves.push_back(vf);
+    }
+    return f;
+  }
+
+  AcPointFigures AcPoint(const AcPointChannels& pc) {
+    AcPointFigures f;
+    f.name = pc.name;
+    f.kind = pc.kind == AcPointChannels::Kind::kSupply          ? "supply"
+             : pc.kind == AcPointChannels::Kind::kTransformerHv ? "transformer HV"
+                                                                 : "transformer LV";
+    double p = 0.0, s_va = 0.0;
+    const std::size_t n = Col(pc.v[0]).size();
+    for (int k = 0; k < 3; ++k) {
+      const WindowStats &v = ChannelStats(pc.v[k]), &i = ChannelStats(pc.i[k]);
+      f.v_rms_V[k] = v.rms;
+      f.i_rms_A[k] = i.rms;
+      s_va += v.rms * i.rms;
+      for (std::size_t m = 0; m < n; ++m) p += Col(pc.v[k])[m] * Col(pc.i[k])[m];
+    }
+    f.p_W = p / n;
+    f.s_VA = s_va;
+    f.power_factor = s_va > 0 ? f.p_W / s_va : 0.0;
+    for (std::size_t w = 0; w < pc.winding_v.size(); ++w)
+      f.winding_VA += ChannelStats(pc.winding_v[w]).rms * ChannelStats(pc.winding_i[w]).rms;
+    if (spectra_ok_) {
+      double p1 = 0.0, q1 = 0.0;
+      for (int k = 0; k < 3; ++k) {
+        const Spectrum sv = SpectrumOf(pc.v[k]), si = SpectrumOf(pc.i[k]);
+        const std::complex<double> s1 = sv.phasor[1] * std::conj(si.phasor[1]) / 2.0;
+        p1 += s1.real();
+        q1 += s1.imag();
+        if (k != 0) continue;
+        f.i1_A = si.rms(1);
+        for (int h = 1; h <= si.max_order(); ++h)
+          f.current_harmonics.push_back({h, si.rms(h), f.i1_A > 0 ? 100.0 * si.rms(h) / f.i1_A : 0.0,
+                                         std::arg(si.phasor[h]) * kDeg});
+        f.thd_pct = 100.0 * si.Thd();
+        f.thd_all_orders_pct = 100.0 * si.ThdAllOrders();
+        f.voltage_thd_pct = 100.0 * sv.Thd();
+        f.il_A = f.i1_A;
+        for (const auto& pcc : in_.study->pccs)
+          if (pc.kind == AcPointChannels::Kind::kSupply && pcc.supply_index == pc.owner && pcc.il > 0) f.il_A = pcc.il;
+        f.tdd_pct = 100.0 * si.Tdd(f.il_A);
+      }
+      f.q1_var = q1;
+      const double s1 = std::hypot(p1, q1);
+      f.displacement_factor = s1 > 0 ? p1 / s1 : 0.0;
+    }
+    // Utilisation: the DC power of the bridge this transformer feeds over
+    // the side's winding VA (check values §1.17: 3/π for a six-pulse bridge).
+    if (pc.kind != AcPointChannels::Kind::kSupply && f.winding_VA > 0) {
+      int bridge = -1;
+      for (const auto& other : in_.recorder->channels().ac_points)
+        if (other.owner == pc.owner && other.kind == AcPointChannels::Kind::kTransformerLv) bridge = other.bridge;
+      double pd = f.p_W;
+      for (std::size_t b = 0; b < out_.bridges.size(); ++b)
+        if (bridge >= 0 && in_.recorder->channels().bridges[b].group == bridge) pd = out_.bridges[b].pd_W;
+      f.utilisation = pd / f.winding_VA;
+    }
+    return f;
+  }
+
+  void Pcc(const PccSpec& pcc) {
+    if (!spectra_ok_) return;
+    const auto& ch = in_.recorder->channels();
+    const SupplyGroup& supply = in_.circuit->supplies()[pcc.supply_index];
+    for (const auto& pc : ch.ac_points) {
+      if (pc.kind != AcPointChannels::Kind::kSupply || pc.owner != pcc.supply_index) continue;
+      std::vector<double> worst_i(kMaxOrder + 1, 0.0), worst_v(kMaxOrder + 1, 0.0);
+      double i1 = 0.0;
+      for (int k = 0; k < 3; ++k) {
+        const Spectrum si = SpectrumOf(pc.i[k]), sv = SpectrumOf(pc.v[k]);
+        i1 = std::max(i1, si.rms(1));
+        for (int h = 0; h <= std::min(kMaxOrder, si.max_order()); ++h) {
+          worst_i[h] = std::max(worst_i[h], si.rms(h));
+          worst_v[h] = std::max(worst_v[h], sv.rms(h));
+        }
+      }
+      const double isc = supply.ssc > 0 ? supply.ssc / (std::sqrt(3.0) * supply.vll) : 0.0;
+      const double il = pcc.il > 0 ? pcc.il : i1;
+      out_.ieee519.push_back(CheckIeee519(supply.name, supply.vll, isc, il, pcc.il <= 0, pcc.pulses, worst_i, worst_v));
+    }
+  }
+
+  const AnalysisInput& in_;
+  CaseAnalysis& out_;
+  CaseRecorder::Window window_;
+  double period_ = 0, omega_ = 0, dt_ = 0;
+  int cycles_ = 0;
+  bool spectra_ok_ = false;
+  std::vector<CommutatingCircuit> commutating_;
+  std::vector<std::optional<WindowStats>> stats_;
+};
+
+}  // namespace
+
+Stats StatsOf(const WindowStats& w, std::string unit) {
+  return {std::move(unit), w.mean,      w.rms,        w.peak(),         w.min,
+          w.max,           w.ripple_pp(), w.ripple_rms(), w.ripple_factor(), w.form_factor()};
+}
+
+double AnalysisKeepSeconds(const Study& study, double fundamental) {
+  if (fundamental <= 0) return study.simulate ? study.simulate->stop : 0.0;
+  const double period = 1.0 / (study.steady && study.steady->frequency > 0 ? study.steady->frequency : fundamental);
+  const int cycles = study.steady ? study.steady->cycles : 1;
+  return (cycles + 0.1) * period;
+}
+
+CaseAnalysis Analyse(const AnalysisInput& in) {
+  const auto start = std::chrono::steady_clock::now();
+  CaseAnalysis a;
+  a.case_name = in.case_name;
+  a.netlist = in.netlist;
+  a.notes = in.notes;
+  const RunSummary& s = in.run->summary;
+  a.run = RunFiguresOf(s);
+  a.window_begin_s = s.window_begin;
+  a.window_end_s = s.window_end;
+  a.frequency_Hz = s.period > 0 ? 1.0 / s.period : 0.0;
+  a.window_cycles = s.period > 0 ? static_cast<int>(std::floor((s.window_end - s.window_begin) / s.period + 1e-6)) : 0;
+
+  const ProbeRecorder& rec = in.recorder->probes();
+  for (std::size_t k = 0; k < rec.probes().size(); ++k)
+    a.probes.push_back({rec.probes()[k].name, StatsOf(Measure(rec.time(), rec.columns()[k], s.window_begin,
+                                                              s.window_end),
+                                                      rec.probes()[k].unit())});
+  WindowAnalysis(in, &a).Run();
+
+  const auto& firings = in.circuit->firings();
+  for (std::size_t f = 0; f < firings.size(); ++f) {
+    const Firing& fr = firings[f];
+    FiringFigures ff;
+    ff.name = fr.name;
+    ff.alpha_end_deg = (f < in.run->final_alpha.size() ? in.run->final_alpha[f] : fr.alpha) * kDeg;
+    if (fr.regulate_probe >= 0) {
+      const auto& column = rec.columns()[fr.regulate_probe];
+      ff.regulates = fr.regulate;
+      ff.target_A = fr.target;
+      ff.mean_A = Measure(rec.time(), column, s.window_begin, s.window_end).mean;
+      ff.error_pct = fr.target != 0 ? 100.0 * (ff.mean_A - fr.target) / fr.target : 0.0;
+      ff.settling_s = s.period > 0 ? SettlingTime(rec.time(), column, fr.target, 0.01, s.period) : -1.0;
+    }
+    a.firings.push_back(ff);
+  }
+  a.analysis_wall_s = std::chrono::duration<double>(std::chrono::steady_clock::now() - start).count();
+  return a;
+}
+
+}  // namespace lcc

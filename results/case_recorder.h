@@ -1,0 +1,54 @@
+// Records one case: every probe over the whole run (for waveforms.csv and
+// COMTRADE), and the analysis channels (results/channels.h) over the
+// analysis window only.
+//
+// The window is known only at the end of a steady run, so the channels go
+// into a ring buffer holding the last `keep` seconds; with a chosen window
+// only the samples inside it are kept. Memory for the channels is bounded
+// by the window, not by the run's length.
+#pragma once
+
+#include <span>
+#include <vector>
+
+#include "engine/simulator.h"
+#include "results/channels.h"
+#include "results/recorder.h"
+
+namespace lcc {
+
+class CaseRecorder final : public SampleSink {
+ public:
+  // keep: seconds of channel history to hold (the window's length, plus a
+  // margin); from/to: a chosen window instead (to > from).
+  CaseRecorder(const std::vector<Probe>& probes, const AnalysisChannels& channels, double keep, double sample,
+               double from = 0.0, double to = 0.0);
+
+  bool wants_derivatives() const override { return probes_.wants_derivatives(); }
+  void OnSample(double t, const double* y, const double* yp) override;
+
+  const ProbeRecorder& probes() const { return probes_; }
+  const AnalysisChannels& channels() const { return channels_; }
+
+  // The channel samples with time in [begin, end) (half a sample of
+  // rounding allowed), oldest first: time, and one column per channel.
+  // Views into the recorder, valid until the next sample; taking them puts
+  // the ring in time order in place (no copy of the data is made).
+  struct Window {
+    std::span<const double> t;
+    std::vector<std::span<const double>> columns;
+  };
+  Window Extract(double begin, double end);
+
+ private:
+  ProbeRecorder probes_;
+  const AnalysisChannels& channels_;
+  int width_ = 0;
+  std::size_t capacity_ = 0;   // rows in the ring
+  std::size_t count_ = 0;      // rows written in all
+  std::vector<double> times_;                 // ring of times
+  std::vector<std::vector<double>> columns_;  // ring of each channel
+  double from_ = 0.0, to_ = 0.0, half_ = 0.0;
+};
+
+}  // namespace lcc

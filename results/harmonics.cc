@@ -1,0 +1,88 @@
+#include "results/harmonics.h"
+
+#include <fftw3.h>
+#include <fmt/format.h>
+
+#include <cmath>
+#include <map>
+#include <mutex>
+#include <stdexcept>
+
+namespace lcc {
+namespace {
+
+// One plan per transform length, made on first use and kept for the life
+// of the process: planning (even FFTW_ESTIMATE) computes the twiddle
+// factors, which cost more than the transform itself. FFTW's planner is
+// not thread-safe, so the cache is guarded; executing a plan on new arrays
+// (fftw_execute_dft_r2c) is, given arrays aligned as at planning, which
+// fftw_alloc_* guarantees.
+fftw_plan PlanFor(int n) {
+  static std::mutex mutex;
+  static std::map<int, fftw_plan> plans;
+  std::lock_guard<std::mutex> lock(mutex);
+  auto it = plans.find(n);
+  if (it != plans.end()) return it->second;
+  double* in = fftw_alloc_real(n);
+  fftw_complex* out = fftw_alloc_complex(n / 2 + 1);
+  fftw_plan plan = fftw_plan_dft_r2c_1d(n, in, out, FFTW_ESTIMATE);
+  fftw_free(in);
+  fftw_free(out);
+  plans.emplace(n, plan);
+  return plan;
+}
+
+}  // namespace
+
+double Spectrum::HarmonicRms() const {
+  double sum = 0.0;
+  for (int h = 2; h <= max_order(); ++h) sum += rms(h) * rms(h);
+  return std::sqrt(sum);
+}
+
+double Spectrum::Thd() const {
+  const double i1 = max_order() >= 1 ? rms(1) : 0.0;
+  return i1 > 0 ? HarmonicRms() / i1 : 0.0;
+}
+
+double Spectrum::ThdAllOrders() const {
+  const double i1 = max_order() >= 1 ? rms(1) : 0.0;
+  if (i1 <= 0) return 0.0;
+  const double rest = total_rms * total_rms - dc * dc - i1 * i1;
+  return std::sqrt(std::max(rest, 0.0)) / i1;
+}
+
+Spectrum AnalyseHarmonics(const double* x, int n, int cycles, int max_order) {
+  if (cycles < 1 || n < 2 * cycles || n % cycles != 0)
+    throw std::invalid_argument(fmt::format("harmonic analysis needs whole cycles: {} samples over {} cycles", n, cycles));
+  Spectrum s;
+  s.cycles = cycles;
+  s.samples_per_cycle = n / cycles;
+  const int resolved = (s.samples_per_cycle - 1) / 2;  // highest order below the Nyquist limit
+  const int orders = std::min(max_order, resolved);
+
+  double* in = fftw_alloc_real(n);
+  fftw_complex* out = fftw_alloc_complex(n / 2 + 1);
+  const fftw_plan plan = PlanFor(n);
+  double sum2 = 0.0;
+  for (int k = 0; k < n; ++k) {
+    in[k] = x[k];
+    sum2 += x[k] * x[k];
+  }
+  fftw_execute_dft_r2c(plan, in, out);
+  // X_m = Σ x_k·e^(−j2πmk/n); for m = cycles·h the peak phasor of harmonic h
+  // is 2·X_m/n (its cosine part is the real part).
+  s.dc = out[0][0] / n;
+  s.total_rms = std::sqrt(sum2 / n);
+  s.phasor.assign(orders + 1, {0.0, 0.0});
+  s.phasor[0] = {s.dc, 0.0};
+  for (int h = 1; h <= orders; ++h) {
+    const int m = h * cycles;
+    s.phasor[h] = std::complex<double>(out[m][0], out[m][1]) * (2.0 / n);
+  }
+  fftw_free(in);
+  fftw_free(out);
+  return s;
+}
+
+}  // namespace lcc
