@@ -14,11 +14,37 @@
 #pragma once
 
 #include <Eigen/Dense>
+#include <memory>
 #include <vector>
 
 #include "engine/mna.h"
 
 namespace lcc {
+
+// Solves the phasor system at harmonics of one frequency, for the switch
+// states the MnaSystem has at each call. The sources are sampled once (their
+// harmonics h ≥ 1 do not depend on valve states: a valve's Vf is DC), and
+// the sparse LU's symbolic analysis and workspace are kept between solves,
+// which share one pattern.
+class PhasorSolver {
+ public:
+  PhasorSolver(MnaSystem& mna, double frequency);
+  ~PhasorSolver();
+  // The phasor Y_h of every unknown: y(t) contains Re(Y_h·e^(j·hωt)).
+  // False if the system is singular at h.
+  bool Solve(int h, Eigen::VectorXcd* y);
+  // The source phasor B_h, and whether it is negligible (all below 1e-12
+  // of the largest source sample).
+  Eigen::VectorXcd SourceHarmonic(int h) const;
+  bool SourceNegligible(const Eigen::VectorXcd& bh) const;
+
+ private:
+  struct Impl;
+  MnaSystem& mna_;
+  double frequency_;
+  Eigen::MatrixXd samples_;
+  std::unique_ptr<Impl> impl_;
+};
 
 // Values at t = 0 of every unknown in the AC steady state of the network in
 // its present switch states. Returns false if the phasor system is

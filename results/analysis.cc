@@ -19,19 +19,19 @@ constexpr int kMaxOrder = 50;
 
 WindowStats StatsOfColumn(std::span<const double> x) {
   WindowStats s;
-  double sum = 0, sum2 = 0;
+  if (x.empty()) return s;
+  double sum = 0, sum2 = 0, lo = x[0], hi = x[0];
   for (double v : x) {
-    if (s.samples == 0) s.min = s.max = v;
-    s.min = std::min(s.min, v);
-    s.max = std::max(s.max, v);
+    lo = std::min(lo, v);
+    hi = std::max(hi, v);
     sum += v;
     sum2 += v * v;
-    ++s.samples;
   }
-  if (s.samples) {
-    s.mean = sum / s.samples;
-    s.rms = std::sqrt(sum2 / s.samples);
-  }
+  s.samples = static_cast<int>(x.size());
+  s.min = lo;
+  s.max = hi;
+  s.mean = sum / s.samples;
+  s.rms = std::sqrt(sum2 / s.samples);
   return s;
 }
 
@@ -86,8 +86,11 @@ class WindowAnalysis {
     return *stats_[c];
   }
 
-  Spectrum SpectrumOf(int c) const {
-    return AnalyseHarmonics(Col(c).data(), static_cast<int>(Col(c).size()), cycles_, kMaxOrder);
+  // The spectrum of a channel, computed once.
+  const Spectrum& SpectrumOf(int c) {
+    if (spectra_.empty()) spectra_.resize(window_.columns.size());
+    if (!spectra_[c]) spectra_[c] = AnalyseHarmonics(Col(c).data(), static_cast<int>(Col(c).size()), cycles_, kMaxOrder);
+    return *spectra_[c];
   }
 
   double ValveOnTime(int device) const {
@@ -122,7 +125,7 @@ class WindowAnalysis {
     for (std::size_t k = 0; k < Col(bc.vd).size(); ++k) p += Col(bc.vd)[k] * Col(bc.id)[k];
     f.pd_W = p / Col(bc.vd).size();
     if (spectra_ok_) {
-      const Spectrum s = SpectrumOf(bc.vd);
+      const Spectrum& s = SpectrumOf(bc.vd);
       for (int h = 1; h <= s.max_order(); ++h)
         if (s.rms(h) > f.ripple_order_rms_V) {
           f.ripple_order_rms_V = s.rms(h);
@@ -168,12 +171,16 @@ class WindowAnalysis {
       vf.i_mean_A = is.mean;
       vf.i_rms_A = is.rms;
       vf.i_peak_A = is.max;
+      double v_min = 0.0, v_fwd = 0.0, rise = 0.0;
       for (std::size_t m = 0; m < v.size(); ++m) {
-        vf.v_reverse_peak_V = std::max(vf.v_reverse_peak_V, -v[m]);
-        if (std::abs(i[m]) < blocking_current) vf.v_forward_peak_V = std::max(vf.v_forward_peak_V, v[m]);
-        vf.i2t_A2s += i[m] * i[m] * dt_;
-        if (m + 1 < i.size() && dt_ > 0) vf.didt_max_A_per_s = std::max(vf.didt_max_A_per_s, (i[m + 1] - i[m]) / dt_);
+        v_min = std::min(v_min, v[m]);
+        if (std::abs(i[m]) < blocking_current) v_fwd = std::max(v_fwd, v[m]);
+        if (m + 1 < i.size()) rise = std::max(rise, i[m + 1] - i[m]);
       }
+      vf.v_reverse_peak_V = -v_min;
+      vf.v_forward_peak_V = v_fwd;
+      vf.i2t_A2s = is.rms * is.rms * is.samples * dt_;
+      vf.didt_max_A_per_s = dt_ > 0 ? rise / dt_ : 0.0;
       if (period_ > 0 && cycles_ > 0) vf.conduction_deg = ValveOnTime(dev) / (cycles_ * period_) * 360.0;
       double sum = 0;
       int n = 0;
@@ -216,7 +223,7 @@ class WindowAnalysis {
     if (spectra_ok_) {
       double p1 = 0.0, q1 = 0.0;
       for (int k = 0; k < 3; ++k) {
-        const Spectrum sv = SpectrumOf(pc.v[k]), si = SpectrumOf(pc.i[k]);
+        const Spectrum &sv = SpectrumOf(pc.v[k]), &si = SpectrumOf(pc.i[k]);
         const std::complex<double> s1 = sv.phasor[1] * std::conj(si.phasor[1]) / 2.0;
         p1 += s1.real();
         q1 += s1.imag();
@@ -260,7 +267,7 @@ class WindowAnalysis {
       std::vector<double> worst_i(kMaxOrder + 1, 0.0), worst_v(kMaxOrder + 1, 0.0);
       double i1 = 0.0;
       for (int k = 0; k < 3; ++k) {
-        const Spectrum si = SpectrumOf(pc.i[k]), sv = SpectrumOf(pc.v[k]);
+        const Spectrum &si = SpectrumOf(pc.i[k]), &sv = SpectrumOf(pc.v[k]);
         i1 = std::max(i1, si.rms(1));
         for (int h = 0; h <= std::min(kMaxOrder, si.max_order()); ++h) {
           worst_i[h] = std::max(worst_i[h], si.rms(h));
@@ -281,6 +288,7 @@ class WindowAnalysis {
   bool spectra_ok_ = false;
   std::vector<CommutatingCircuit> commutating_;
   std::vector<std::optional<WindowStats>> stats_;
+  std::vector<std::optional<Spectrum>> spectra_;
 };
 
 }  // namespace

@@ -16,8 +16,9 @@ std::vector<CommutatingCircuit> FindCommutatingCircuits(const Circuit& circuit, 
   MnaSystem mna(circuit);
   const std::vector<std::uint8_t> blocking(circuit.num_switch_slots(), 0);
   mna.SetSwitchStates(blocking);
+  PhasorSolver solver(mna, frequency);
   Eigen::VectorXcd open, shorted;
-  if (!SolveHarmonicPhasor(mna, frequency, 1, &open)) return out;
+  if (!solver.Solve(1, &open)) return out;
   auto v = [](const Eigen::VectorXcd& y, int node) { return node > 0 ? y[NodeUnknown(node)] : std::complex<double>(0); };
   const double omega = 2.0 * std::numbers::pi * frequency;
   for (std::size_t g = 0; g < groups.size(); ++g) {
@@ -33,7 +34,7 @@ std::vector<CommutatingCircuit> FindCommutatingCircuits(const Circuit& circuit, 
     states[v1.switch_slot()] = 1;
     states[v3.switch_slot()] = 1;
     mna.SetSwitchStates(states);
-    if (!SolveHarmonicPhasor(mna, frequency, 1, &shorted)) continue;
+    if (!solver.Solve(1, &shorted)) continue;
     const std::complex<double> i_ab = shorted[v1.branch(0)];
     if (std::abs(i_ab) == 0.0) continue;
     // The short closes through valves 1 and 3 in their on state; take their

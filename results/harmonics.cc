@@ -61,8 +61,27 @@ Spectrum AnalyseHarmonics(const double* x, int n, int cycles, int max_order) {
   const int resolved = (s.samples_per_cycle - 1) / 2;  // highest order below the Nyquist limit
   const int orders = std::min(max_order, resolved);
 
-  double* in = fftw_alloc_real(n);
-  fftw_complex* out = fftw_alloc_complex(n / 2 + 1);
+  // Work arrays kept per thread between calls (fftw_alloc alignment, as
+  // the plan needs); a report makes dozens of transforms of one length.
+  struct Buffers {
+    int n = 0;
+    double* in = nullptr;
+    fftw_complex* out = nullptr;
+    ~Buffers() {
+      fftw_free(in);
+      fftw_free(out);
+    }
+  };
+  thread_local Buffers buffers;
+  if (buffers.n != n) {
+    fftw_free(buffers.in);
+    fftw_free(buffers.out);
+    buffers.in = fftw_alloc_real(n);
+    buffers.out = fftw_alloc_complex(n / 2 + 1);
+    buffers.n = n;
+  }
+  double* in = buffers.in;
+  fftw_complex* out = buffers.out;
   const fftw_plan plan = PlanFor(n);
   double sum2 = 0.0;
   for (int k = 0; k < n; ++k) {
@@ -80,8 +99,6 @@ Spectrum AnalyseHarmonics(const double* x, int n, int cycles, int max_order) {
     const int m = h * cycles;
     s.phasor[h] = std::complex<double>(out[m][0], out[m][1]) * (2.0 / n);
   }
-  fftw_free(in);
-  fftw_free(out);
   return s;
 }
 
