@@ -2,6 +2,8 @@
 
 #include <fmt/format.h>
 
+#include <cmath>
+
 namespace lcc {
 namespace {
 
@@ -18,9 +20,12 @@ void Probes(const CaseAnalysis& a, std::string& out) {
                      "mean", "rms", "peak", "min", "max", "ripple p-p", "ripple f", "form f");
   for (const auto& p : a.probes) {
     const Stats& s = p.stats;
-    out += fmt::format("  {:<14} {:>5} {:>12.6g} {:>12.6g} {:>12.6g} {:>12.6g} {:>12.6g} {:>12.6g} {:>9.5f} {:>9.5f}\n",
-                       p.name, s.unit, s.mean, s.rms, s.peak, s.min, s.max, s.ripple_pp, s.ripple_factor,
-                       s.form_factor);
+    // Ripple and form factors are DC figures: shown where the mean is more
+    // than a thousandth of the rms.
+    const bool dc = std::abs(s.mean) > 1e-3 * s.rms;
+    out += fmt::format("  {:<14} {:>5} {:>12.6g} {:>12.6g} {:>12.6g} {:>12.6g} {:>12.6g} {:>12.6g} {:>9} {:>9}\n",
+                       p.name, s.unit, s.mean, s.rms, s.peak, s.min, s.max, s.ripple_pp,
+                       dc ? fmt::format("{:.5f}", s.ripple_factor) : "-", dc ? fmt::format("{:.5f}", s.form_factor) : "-");
   }
   out += "\n";
 }

@@ -105,8 +105,9 @@ std::string RenderWaveformsSvg(const ProbeRecorder& rec, const PlotOptions& o) {
     }
     s += fmt::format("<text x=\"{}\" y=\"{}\" text-anchor=\"middle\">time [ms]</text>\n", left + plot_w / 2,
                      y_top + h + 34);
-    s += fmt::format("<text transform=\"translate({},{}) rotate(-90)\" text-anchor=\"middle\">[{}]</text>\n", 24,
-                     y_top + h / 2, Escape(units[p]));
+    const std::string quantity = units[p] == "V" ? "voltage " : units[p] == "A" ? "current " : units[p] == "W" ? "power " : "";
+    s += fmt::format("<text transform=\"translate({},{}) rotate(-90)\" text-anchor=\"middle\">{}[{}]</text>\n", 24,
+                     y_top + h / 2, quantity, Escape(units[p]));
     int legend_row = 0;
     for (std::size_t k : members[units[p]]) {
       const char* colour = kColours[k % (sizeof(kColours) / sizeof(kColours[0]))];
