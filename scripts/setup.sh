@@ -12,5 +12,5 @@ for netlist in circuits/*.lcc; do
 done
 echo
 echo "lccsim is built: ./build/lccsim --help"
-echo "demo results are in $(pwd)/out/ (one folder per demo, each with base/waveforms.csv and base/report.txt)"
+echo "demo results are in $(pwd)/out/ (one folder per demo: base/report.txt, waveforms in CSV, COMTRADE and SVG, and summary.csv/json)"
 exit $status
