@@ -2,9 +2,17 @@
 
 #include <fmt/format.h>
 
+#include <atomic>
+#include <chrono>
 #include <filesystem>
 #include <fstream>
+#include <map>
+#include <mutex>
+#include <optional>
 #include <sstream>
+#include <thread>
+
+#include "app/case_runner.h"
 
 #include "engine/simulator.h"
 #include "engine/topology.h"
@@ -59,6 +67,20 @@ int CheckCommand(const std::string& netlist, std::ostream& out, std::ostream& er
   return kExitOk;
 }
 
+namespace {
+
+std::string ShardSuffix(const RunCommandOptions& o) {
+  return o.shard_count > 1 ? fmt::format("-shard-{}-of-{}", o.shard_index, o.shard_count) : std::string();
+}
+
+void WriteSummaries(const std::string& out_dir, const std::string& suffix, const std::set<std::string>& formats,
+                    const std::vector<CaseAnalysis>& cases) {
+  if (formats.count("csv")) WriteSummaryCsv((fs::path(out_dir) / ("summary" + suffix + ".csv")).string(), cases);
+  if (formats.count("json")) WriteSummaryJson((fs::path(out_dir) / ("summary" + suffix + ".json")).string(), cases);
+}
+
+}  // namespace
+
 int RunCommand(const RunCommandOptions& options, std::ostream& out, std::ostream& err) {
   TopologyReport topology;
   auto design = Load(options.netlist, err, &topology);
@@ -68,63 +90,151 @@ int RunCommand(const RunCommandOptions& options, std::ostream& out, std::ostream
                        options.netlist);
     return kExitInputError;
   }
-  const EngineOptions& engine = options.engine;
   std::string why;
-  if (!engine.IsValid(&why)) {
+  if (!options.engine.IsValid(&why)) {
     err << "lccsim: error: engine option " << why << "\n";
     return kExitInputError;
   }
-
-  const std::string case_name = "base";
-  const fs::path case_dir = fs::path(options.out_dir) / case_name;
+  if (options.shard_count < 1 || options.shard_index < 0 || options.shard_index >= options.shard_count) {
+    err << fmt::format("lccsim: error: shard {}/{} does not exist (I/N with 0 <= I < N)\n", options.shard_index,
+                       options.shard_count);
+    return kExitInputError;
+  }
   std::error_code ec;
-  fs::create_directories(case_dir, ec);
+  fs::create_directories(options.out_dir, ec);
   if (ec) {
-    err << fmt::format("lccsim: error: cannot create '{}': {}\n", case_dir.string(), ec.message());
+    err << fmt::format("lccsim: error: cannot create '{}': {}\n", options.out_dir, ec.message());
     return kExitInputError;
   }
 
-  const Study& study = design->study;
-  const AnalysisChannels channels = BuildAnalysisChannels(design->circuit);
-  const double fundamental = study.steady && study.steady->frequency > 0 ? study.steady->frequency : study.fundamental;
-  const double sample = study.simulate->sample > 0 ? study.simulate->sample
-                        : fundamental > 0          ? 1.0 / fundamental / 1024.0
-                                                   : study.simulate->stop / 10000.0;
-  CaseRecorder recorder(study.probes, channels, AnalysisKeepSeconds(study, fundamental), sample,
-                        study.window ? study.window->from : 0.0, study.window ? study.window->to : 0.0);
-  RunResult run = Simulate(design->circuit, study, engine, recorder);
-  const CaseAnalysis analysis =
-      Analyse({case_name, options.netlist, topology.notes, &design->circuit, &study, &recorder, &run});
+  std::vector<CaseInstance> cases;
+  for (auto& c : ExpandCases(design->batch))
+    if (c.index % options.shard_count == options.shard_index) cases.push_back(std::move(c));
+  CaseRunOptions run_options{options.netlist, options.out_dir, options.engine, options.formats};
 
-  const auto& formats = options.formats;
-  const double period = run.summary.period;
-  try {
-    const std::string base = (case_dir / "waveforms").string();
-    if (formats.count("csv")) WriteWaveformsCsv(base + ".csv", recorder.probes());
-    if (formats.count("comtrade"))
-      WriteComtrade(base, {"lccsim", case_name, period > 0 ? 1.0 / period : 0.0, run.summary.sample_used},
-                    recorder.probes());
-    if (formats.count("svg")) {
-      PlotOptions plot;
-      plot.title = fmt::format("{}: case {}", options.netlist, case_name);
-      plot.begin = run.summary.window_begin;
-      plot.end = run.summary.window_end;
-      if (!(plot.end > plot.begin)) plot.begin = 0.0, plot.end = std::max(run.summary.t_reached, 0.0);
-      WriteFileAtomically(base + ".svg", RenderWaveformsSvg(recorder.probes(), plot));
+  // Cases already complete (--resume) are read back, not run.
+  std::vector<std::optional<CaseRunResult>> results(cases.size());
+  std::vector<std::size_t> to_run;
+  for (std::size_t k = 0; k < cases.size(); ++k) {
+    CaseAnalysis done;
+    if (options.resume && LoadFinishedCase(options.out_dir, cases[k], &done)) {
+      results[k] = CaseRunResult{std::move(done), false, 0.0};
+    } else {
+      to_run.push_back(k);
     }
-    WriteEventsCsv((case_dir / "events.csv").string(),
-                   EventLog(design->circuit, run, period > 0 ? 1.0 / period : 0.0));
-    WriteFileAtomically((case_dir / "analysis.json").string(), ToJson(analysis).dump(1) + "\n");
-    WriteFileAtomically((case_dir / "report.txt").string(), FormatReport(analysis));
-    if (formats.count("csv")) WriteSummaryCsv((fs::path(options.out_dir) / "summary.csv").string(), {analysis});
-    if (formats.count("json")) WriteSummaryJson((fs::path(options.out_dir) / "summary.json").string(), {analysis});
+  }
+
+  const int jobs = std::max(1, options.jobs > 0 ? options.jobs
+                                                : static_cast<int>(std::thread::hardware_concurrency()));
+  std::atomic<std::size_t> next{0};
+  std::atomic<std::size_t> finished{0};
+  std::mutex progress_mutex;
+  const auto start = std::chrono::steady_clock::now();
+  auto cancelled = [&] { return options.engine.limits.cancel && options.engine.limits.cancel->load(); };
+  auto worker = [&] {
+    while (!cancelled()) {
+      const std::size_t n = next.fetch_add(1);
+      if (n >= to_run.size()) return;
+      const std::size_t k = to_run[n];
+      CaseRunResult r = RunCase(run_options, cases[k]);
+      const bool interrupted = r.interrupted;
+      if (!interrupted) results[k] = std::move(r);
+      const std::size_t done = ++finished;
+      if (options.progress) {
+        std::lock_guard<std::mutex> lock(progress_mutex);
+        const double elapsed = std::chrono::duration<double>(std::chrono::steady_clock::now() - start).count();
+        const double remaining = elapsed / done * (to_run.size() - done);
+        err << fmt::format("\rcases {}/{}  elapsed {:.1f} s  remaining about {:.1f} s   ", done, to_run.size(), elapsed,
+                           remaining)
+            << std::flush;
+      }
+    }
+  };
+  std::vector<std::thread> pool;
+  for (int j = 1; j < std::min<int>(jobs, static_cast<int>(to_run.size())); ++j) pool.emplace_back(worker);
+  worker();
+  for (auto& t : pool) t.join();
+  if (options.progress && !to_run.empty()) err << "\n";
+
+  std::vector<CaseAnalysis> analyses;
+  std::string timing = "case,wall [s]\n";
+  int failed = 0;
+  bool interrupted = false;
+  for (std::size_t k = 0; k < cases.size(); ++k) {
+    if (!results[k]) {
+      interrupted = true;
+      continue;
+    }
+    const CaseAnalysis& a = results[k]->analysis;
+    if (a.run.status != "completed") ++failed;
+    timing += fmt::format("{},{:.6f}\n", a.folder, results[k]->wall_seconds);
+    analyses.push_back(a);
+  }
+  try {
+    WriteSummaries(options.out_dir, ShardSuffix(options), options.formats, analyses);
+    WriteFileAtomically((fs::path(options.out_dir) / ("timing" + ShardSuffix(options) + ".csv")).string(), timing);
   } catch (const std::exception& e) {
     err << "lccsim: error: " << e.what() << "\n";
     return kExitSimulationFailed;
   }
-  out << fmt::format("{}: {}\n", case_name, run.summary.BriefReport());
-  out << fmt::format("results: {}\n", case_dir.string());
-  return run.summary.status == RunSummary::Status::kCompleted ? kExitOk : kExitSimulationFailed;
+  for (const auto& a : analyses)
+    out << fmt::format("{}: {}{}\n", a.folder, a.run.status, a.run.message.empty() ? "" : " (" + a.run.message + ")");
+  out << fmt::format("results: {} ({} case{}{})\n", options.out_dir, analyses.size(), analyses.size() == 1 ? "" : "s",
+                     failed ? fmt::format(", {} failed", failed) : "");
+  if (interrupted) {
+    err << fmt::format("lccsim: interrupted: {} of {} cases finished; run again with --resume to complete\n",
+                       analyses.size(), cases.size());
+    return kExitInterrupted;
+  }
+  return failed ? kExitSimulationFailed : kExitOk;
+}
+
+int CasesCommand(const std::string& netlist, std::ostream& out, std::ostream& err) {
+  TopologyReport topology;
+  auto design = Load(netlist, err, &topology);
+  if (!design) return kExitInputError;
+  const auto cases = ExpandCases(design->batch);
+  out << fmt::format("{:>5}  {:<40}  {}\n", "index", "folder", "case");
+  for (const auto& c : cases) out << fmt::format("{:>5}  {:<40}  {}\n", c.index, c.folder, c.name);
+  out << fmt::format("{} case{}\n", cases.size(), cases.size() == 1 ? "" : "s");
+  return kExitOk;
+}
+
+int MergeCommand(const std::vector<std::string>& dirs, const std::string& out_dir, std::ostream& out,
+                 std::ostream& err) {
+  std::map<int, CaseAnalysis> cases;
+  for (const auto& dir : dirs) {
+    std::error_code ec;
+    for (const auto& entry : fs::directory_iterator(dir, ec)) {
+      const fs::path file = entry.path() / "analysis.json";
+      if (!entry.is_directory() || !fs::exists(file)) continue;
+      std::ifstream in(file);
+      std::stringstream text;
+      text << in.rdbuf();
+      try {
+        CaseAnalysis a = CaseAnalysisFromJson(nlohmann::json::parse(text.str()));
+        cases[a.case_index] = std::move(a);
+      } catch (const std::exception& e) {
+        err << fmt::format("lccsim: error: {}: {}\n", file.string(), e.what());
+        return kExitInputError;
+      }
+    }
+    if (ec) {
+      err << fmt::format("lccsim: error: cannot read '{}': {}\n", dir, ec.message());
+      return kExitInputError;
+    }
+  }
+  std::vector<CaseAnalysis> list;
+  for (auto& [index, a] : cases) list.push_back(std::move(a));
+  try {
+    fs::create_directories(out_dir);
+    WriteSummaries(out_dir, "", AllFormats(), list);
+  } catch (const std::exception& e) {
+    err << "lccsim: error: " << e.what() << "\n";
+    return kExitSimulationFailed;
+  }
+  out << fmt::format("merged {} cases into {}\n", list.size(), out_dir);
+  return kExitOk;
 }
 
 int ReportCommand(const std::string& case_dir, std::ostream& out, std::ostream& err) {

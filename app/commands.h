@@ -6,12 +6,14 @@
 #include <ostream>
 #include <set>
 #include <string>
+#include <vector>
 
 #include "engine/simulator.h"
 
 namespace lcc {
 
-enum ExitCode { kExitOk = 0, kExitSimulationFailed = 1, kExitInputError = 2 };
+// 130: stopped by Ctrl-C (128 + SIGINT, the shell's convention).
+enum ExitCode { kExitOk = 0, kExitSimulationFailed = 1, kExitInputError = 2, kExitInterrupted = 130 };
 
 // Output formats; report.txt, analysis.json and events.csv are always written.
 //   csv       CASE/waveforms.csv and OUT/summary.csv
@@ -25,9 +27,24 @@ struct RunCommandOptions {
   std::string out_dir = "out";  // results go to OUT/CASE/
   EngineOptions engine;         // limits and numerical settings
   std::set<std::string> formats = AllFormats();
+  int jobs = 0;                 // cases run at once (0: one per core)
+  bool resume = false;          // skip cases whose results are complete
+  int shard_index = 0;          // run only the cases k with k % shard_count == shard_index
+  int shard_count = 1;
+  bool progress = false;        // progress lines on the error stream
 };
 
+// Runs every case of the netlist (its cases × sweep points), `jobs` at a
+// time; OUT/summary.csv and .json list them in batch order, identical for
+// any `jobs` (wall-clock times go to OUT/timing.csv only). With shards, the
+// summaries are OUT/summary-shard-I-of-N.*; `merge` joins them.
 int RunCommand(const RunCommandOptions& options, std::ostream& out, std::ostream& err);
+// Lists the cases of a netlist: index, folder, name.
+int CasesCommand(const std::string& netlist, std::ostream& out, std::ostream& err);
+// Reads every finished case under the folders and writes OUT/summary.csv
+// and OUT/summary.json, as one run of all of them would have.
+int MergeCommand(const std::vector<std::string>& dirs, const std::string& out_dir, std::ostream& out,
+                 std::ostream& err);
 // Prints the report of a finished case again from CASE/analysis.json.
 int ReportCommand(const std::string& case_dir, std::ostream& out, std::ostream& err);
 int CheckCommand(const std::string& netlist, std::ostream& out, std::ostream& err);

@@ -2,9 +2,22 @@
 // command and maps its result to the exit code (see app/commands.h).
 #include <CLI/CLI.hpp>
 
+#include <unistd.h>
+
+#include <atomic>
+#include <csignal>
 #include <iostream>
 
 #include "app/commands.h"
+
+namespace {
+
+// Ctrl-C: running cases stop at their next step, no new case starts, and
+// the finished ones keep their results.
+std::atomic<bool> g_interrupted{false};
+extern "C" void OnInterrupt(int) { g_interrupted.store(true); }
+
+}  // namespace
 
 int main(int argc, char** argv) {
   CLI::App app{"lccsim: simulates line-commutated converter circuits described in a netlist"};
@@ -21,6 +34,10 @@ int main(int argc, char** argv) {
                   "give up after this many seconds of wall-clock time per case (0: no limit)")
       ->capture_default_str();
 
+  run->add_option("--jobs,-j", run_options.jobs, "cases run at once (default: one per core)");
+  run->add_flag("--resume", run_options.resume, "skip the cases whose results are complete; run the rest");
+  std::string shard;
+  run->add_option("--shard", shard, "run part I of N of the cases (I/N, 0 <= I < N), e.g. for array jobs");
   std::vector<std::string> formats;
   run->add_option("--formats", formats, "output formats among csv, json, comtrade, svg (default: all)")
       ->delimiter(',')
@@ -29,6 +46,16 @@ int main(int argc, char** argv) {
   std::string report_dir;
   auto* report = app.add_subcommand("report", "print the report of a finished case again, without simulating");
   report->add_option("CASE_DIR", report_dir, "the case's output folder, e.g. out/base")->required();
+
+  std::string cases_file;
+  auto* cases = app.add_subcommand("cases", "list the cases of a netlist with their output folders");
+  cases->add_option("FILE", cases_file, "the netlist")->required();
+
+  std::vector<std::string> merge_dirs;
+  std::string merge_out;
+  auto* merge = app.add_subcommand("merge", "join the finished cases of shard runs into one summary");
+  merge->add_option("DIR", merge_dirs, "output folders of the shards")->required();
+  merge->add_option("--out", merge_out, "where summary.csv and summary.json go (default: the first DIR)");
 
   std::string check_file;
   auto* check = app.add_subcommand("check", "parse, elaborate and check a netlist; list nodes, elements, unknowns");
@@ -43,8 +70,26 @@ int main(int argc, char** argv) {
   try {
     if (*run) {
       if (!formats.empty()) run_options.formats = {formats.begin(), formats.end()};
+      if (!shard.empty()) {
+        const auto slash = shard.find('/');
+        try {
+          if (slash == std::string::npos) throw std::invalid_argument(shard);
+          run_options.shard_index = std::stoi(shard.substr(0, slash));
+          run_options.shard_count = std::stoi(shard.substr(slash + 1));
+        } catch (const std::exception&) {
+          std::cerr << "lccsim: error: --shard takes I/N, e.g. --shard 0/4\n";
+          return lcc::kExitInputError;
+        }
+      }
+      run_options.progress = isatty(STDERR_FILENO);
+      run_options.engine.limits.cancel = &g_interrupted;
+      std::signal(SIGINT, OnInterrupt);
+      std::signal(SIGTERM, OnInterrupt);
       return lcc::RunCommand(run_options, std::cout, std::cerr);
     }
+    if (*cases) return lcc::CasesCommand(cases_file, std::cout, std::cerr);
+    if (*merge) return lcc::MergeCommand(merge_dirs, merge_out.empty() ? merge_dirs.front() : merge_out, std::cout,
+                                         std::cerr);
     if (*report) return lcc::ReportCommand(report_dir, std::cout, std::cerr);
     if (*check) return lcc::CheckCommand(check_file, std::cout, std::cerr);
   } catch (const std::exception& e) {

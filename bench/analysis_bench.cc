@@ -61,7 +61,7 @@ int Bench(const char* title, std::unique_ptr<lcc::Design> design, lcc::Diagnosti
     sim_best = std::min(sim_best, run.summary.wall_seconds);
     summary = run.summary;
     const auto t0 = std::chrono::steady_clock::now();
-    const auto a = lcc::Analyse({"bench", title, {}, &design->circuit, &study, &recorder, &run});
+    const auto a = lcc::Analyse({"bench", title, 0, "bench", {}, &design->circuit, &study, &recorder, &run});
     const double dt = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
     analysis_best = std::min(analysis_best, dt);
     if (a.bridges.size() != 2) return 1;

@@ -49,7 +49,7 @@ int SlotOf(const MnaSystem::SparseMatrix& m, int row, int col) {
 
 }  // namespace
 
-MnaSystem::MnaSystem(const Circuit& circuit, const LuOptions& lu) : circuit_(circuit), n_(circuit.num_unknowns()) {
+MnaSystem::MnaSystem(const Circuit& circuit, const LuOptions& lu) : circuit_(&circuit), n_(circuit.num_unknowns()) {
   PatternSink pattern_sink;
   for (const auto& d : circuit.devices()) d->Stamp(pattern_sink, false);
   auto drop_ground = [](std::vector<Eigen::Triplet<double, int>>& t) {
@@ -104,10 +104,43 @@ void MnaSystem::SetSwitchStates(const std::vector<std::uint8_t>& states) {
   step_factored_h_ = 0.0;
   std::fill(g_values_.begin(), g_values_.end(), 0.0);
   ValueSink sink(g_slot_, c_slot_, g_values_.data(), nullptr);
-  for (const auto& d : circuit_.devices()) {
+  for (const auto& d : circuit_->devices()) {
     const bool on = d->switch_slot() >= 0 && states_[d->switch_slot()];
     d->Stamp(sink, on);
   }
+}
+
+bool MnaSystem::Rebind(const Circuit& other, std::string* error) {
+  if (other.num_unknowns() != n_ || other.devices().size() != circuit_->devices().size() ||
+      other.num_switch_slots() != circuit_->num_switch_slots()) {
+    *error = "the circuit changed its structure; only values may change during a run";
+    return false;
+  }
+  std::vector<double> c(pattern_.nonZeros(), 0.0);
+  ValueSink sink(g_slot_, c_slot_, nullptr, c.data());
+  for (const auto& d : other.devices()) d->Stamp(sink, false);
+  for (int col = 0; col < n_; ++col) {
+    bool differential = false;
+    for (int p = pattern_.outerIndexPtr()[col]; p < pattern_.outerIndexPtr()[col + 1]; ++p)
+      differential |= c[p] != 0.0;
+    if (differential != static_cast<bool>(differential_[col])) {
+      *error = fmt::format("a value set during the run makes {} {} a state variable", other.UnknownName(col),
+                           differential ? "become" : "cease to be");
+      return false;
+    }
+  }
+  circuit_ = &other;
+  c_values_ = c;
+  source_devices_.clear();
+  for (const auto& d : other.devices())
+    if (d->has_sources()) source_devices_.push_back(d.get());
+  consistency_factored_ = false;
+  step_factored_h_ = 0.0;
+  response_valid_ = false;
+  const std::vector<std::uint8_t> states = states_;
+  states_.clear();  // forces the re-stamp
+  SetSwitchStates(states);
+  return true;
 }
 
 void MnaSystem::Sources(double t, double* b) const {
@@ -163,7 +196,7 @@ bool MnaSystem::SolveConsistent(double t, double* y, double* yp, std::string* er
   for (int k = 0; k < n_; ++k) {
     if (!std::isfinite(z[k])) {
       *error = fmt::format("the circuit equations are singular at t = {:.9g} s (unknown {})", t,
-                           circuit_.UnknownName(k));
+                           circuit_->UnknownName(k));
       return false;
     }
     if (differential_[k]) {

@@ -43,6 +43,12 @@ class MnaSystem {
   // Re-stamps G for the given switch states (one entry per switch slot).
   void SetSwitchStates(const std::vector<std::uint8_t>& states);
 
+  // Takes the values of `other`, a circuit of the same structure (the same
+  // devices and unknowns, other parameter values: a case's `at ... set`).
+  // Returns false, with the reason, if the structure or the set of
+  // differential unknowns differs.
+  bool Rebind(const Circuit& other, std::string* error);
+
   // b(t) for the present switch states.
   void Sources(double t, double* b) const;
   const std::vector<double>& g_values() const { return g_values_; }
@@ -76,7 +82,7 @@ class MnaSystem {
   bool BackwardEulerStep(double t, double h, double* y, std::string* error);
 
  private:
-  const Circuit& circuit_;
+  const Circuit* circuit_;
   int n_ = 0;
   SparseMatrix pattern_;
   std::vector<int> g_slot_;  // stamp order -> value index

@@ -65,9 +65,13 @@ void Check(int flag, const char* call) {
 
 class Run {
  public:
-  Run(const Circuit& circuit, const Study& study, const EngineOptions& options, SampleSink& sink)
-      : circuit_(circuit), study_(study), options_(options), sink_(sink), mna_(circuit, options.lu),
-        n_(mna_.size()) {}
+  Run(const Circuit& circuit, const Study& study, const EngineOptions& options, SampleSink& sink,
+      const std::vector<EngineAction>& actions)
+      : circuit_(&circuit), study_(&study), options_(options), actions_(actions), sink_(sink),
+        mna_(circuit, options.lu), n_(mna_.size()) {
+    std::stable_sort(actions_.begin(), actions_.end(),
+                     [](const EngineAction& a, const EngineAction& b) { return a.t < b.t; });
+  }
 
   RunResult Execute() {
     const auto start = std::chrono::steady_clock::now();
@@ -94,12 +98,12 @@ class Run {
 
   // Returns false if the initial configuration cannot be settled.
   bool Prepare() {
-    const SimulateSpec& sim = *study_.simulate;
+    const SimulateSpec& sim = *study_->simulate;
     auto& s = result_.summary;
     s.stop_given = sim.stop;
     s.reltol_used = sim.reltol;
-    const double f = study_.steady && study_.steady->frequency > 0 ? study_.steady->frequency
-                                                                   : study_.fundamental;
+    const double f = study_->steady && study_->steady->frequency > 0 ? study_->steady->frequency
+                                                                   : study_->fundamental;
     period_ = f > 0 ? 1.0 / f : 0.0;
     s.period = period_;
     s.sample_used = sim.sample > 0 ? sim.sample : period_ > 0 ? period_ / 1024.0 : sim.stop / 10000.0;
@@ -111,14 +115,14 @@ class Run {
     s.max_step_used = sim.max_step > 0                ? sim.max_step
                       : period_ > 0                   ? period_ * options_.default_max_step_degrees / 360.0
                                                       : sim.stop / 1000.0;
-    s.steady_requested = study_.steady.has_value();
+    s.steady_requested = study_->steady.has_value();
     t_end_ = sim.stop;
-    if (study_.steady && study_.steady->settle_max > 0 && period_ > 0)
-      t_end_ = std::min(sim.stop, study_.steady->settle_max + study_.steady->cycles * period_);
+    if (study_->steady && study_->steady->settle_max > 0 && period_ > 0)
+      t_end_ = std::min(sim.stop, study_->steady->settle_max + study_->steady->cycles * period_);
 
     // Scales for the absolute tolerances and the valve hysteresis.
     double v_ref = 0.0, i_ref = 0.0, r_min = 0.0;
-    for (const auto& d : circuit_.devices()) {
+    for (const auto& d : circuit_->devices()) {
       v_ref = std::max(v_ref, d->voltage_scale());
       i_ref = std::max(i_ref, d->current_scale());
       const double r = d->resistance_scale();
@@ -134,8 +138,8 @@ class Run {
     eps_v_ = options_.tolerances.hysteresis * atol_v;
     eps_i_ = options_.tolerances.hysteresis * atol_i;
 
-    for (std::size_t k = 0; k < circuit_.devices().size(); ++k) {
-      const Device& d = *circuit_.devices()[k];
+    for (std::size_t k = 0; k < circuit_->devices().size(); ++k) {
+      const Device& d = *circuit_->devices()[k];
       if (d.natural()) valves_.push_back({static_cast<int>(k), static_cast<const Valve*>(&d)});
     }
 
@@ -153,8 +157,8 @@ class Run {
     double* a = N_VGetArrayPointer(atol.get());
     double* idv = N_VGetArrayPointer(id.get());
     const double unit = sim.reltol * options_.tolerances.abstol_fraction;
-    for (int k = 0; k < circuit_.num_nodes() - 1; ++k) a[k] = atol_v;
-    for (const auto& d : circuit_.devices())
+    for (int k = 0; k < circuit_->num_nodes() - 1; ++k) a[k] = atol_v;
+    for (const auto& d : circuit_->devices())
       for (int k = 0; k < d->num_branches(); ++k) a[d->branch(k)] = unit * d->unknown_scale(k, v_ref, i_ref);
     for (int k = 0; k < n_; ++k) idv[k] = mna_.differential()[k] ? 1.0 : 0.0;
     atol_.assign(a, a + n_);
@@ -164,18 +168,18 @@ class Run {
     double* yp = N_VGetArrayPointer(yp_.get());
     std::fill(y, y + n_, 0.0);
     std::fill(yp, yp + n_, 0.0);
-    for (const auto& d : circuit_.devices())
+    for (const auto& d : circuit_->devices())
       for (int k = 0; k < d->num_branches(); ++k) y[d->branch(k)] = d->initial_value(k);
-    states_.assign(circuit_.num_switch_slots(), 0);
-    for (const auto& d : circuit_.devices())
+    states_.assign(circuit_->num_switch_slots(), 0);
+    for (const auto& d : circuit_->devices())
       if (d->has_switch_state()) states_[d->switch_slot()] = d->initially_on();
-    if (sim.periodic_start && study_.fundamental > 0) {
+    if (sim.periodic_start && study_->fundamental > 0) {
       // Start from the AC steady state of the network (engine/phasor.h),
       // except where the user gave an initial value.
       mna_.SetSwitchStates(states_);
       std::vector<double> y0;
-      if (SolvePeriodicStart(mna_, study_.fundamental, &y0)) {
-        for (const auto& d : circuit_.devices()) {
+      if (SolvePeriodicStart(mna_, study_->fundamental, &y0)) {
+        for (const auto& d : circuit_->devices()) {
           if (d->has_initial_value()) continue;
           for (int k = 0; k < d->num_branches(); ++k)
             if (mna_.differential()[d->branch(k)]) y[d->branch(k)] = y0[d->branch(k)];
@@ -183,18 +187,23 @@ class Run {
       }
     }
     ComputeFiringReferences();
-    for (const auto& f : circuit_.firings()) {
+    for (const auto& f : circuit_->firings()) {
       alpha_now_.push_back(f.alpha);
       integral_.push_back(0.0);
       last_regulation_.push_back(0.0);
       if (f.regulate_probe >= 0) {
-        regulated_integral_.assign(circuit_.firings().size(), 0.0);
-        last_regulated_value_.assign(circuit_.firings().size(), 0.0);
+        regulated_integral_.assign(circuit_->firings().size(), 0.0);
+        last_regulated_value_.assign(circuit_->firings().size(), 0.0);
       }
     }
     result_.final_alpha = alpha_now_;
     previous_alpha_ = alpha_now_;
     recover_until_.assign(valves_.size(), -1.0);
+    forced_.assign(valves_.size(), 0);
+    misfire_left_.assign(valves_.size(), 0);
+    misfire_from_.assign(valves_.size(), 0.0);
+    suppressed_from_.assign(valves_.size(), 0.0);
+    suppressed_until_.assign(valves_.size(), -1.0);
     t_off_.assign(valves_.size(), -1.0);
     awaiting_forward_.assign(valves_.size(), 0);
     StartPlls();  // before the first Settle, which fires by the loops' angles
@@ -223,7 +232,7 @@ class Run {
       Check(IDASetNoInactiveRootWarn(mem), "IDASetNoInactiveRootWarn");
       SetRootDirections();
     }
-    if (study_.steady && period_ > 0) {
+    if (study_->steady && period_ > 0) {
       next_boundary_ = period_;
       previous_state_ = DifferentialState(y);
       cycle_peak_.assign(previous_state_.size(), 0.0);
@@ -239,7 +248,15 @@ class Run {
     const double dt = result_.summary.sample_used;
     double t = 0.0;
     std::vector<int> roots(2 * valves_.size());
+    if (next_action_ < actions_.size() && actions_[next_action_].t <= 0.0) {
+      if (!ApplyActions(0.0)) return;
+      ArmStopTime(0.0);
+    }
     while (true) {
+      if (options_.limits.cancel && options_.limits.cancel->load(std::memory_order_relaxed)) {
+        Fail(fmt::format("interrupted at t = {:.6g} s", t));
+        return;
+      }
       if (options_.limits.max_steps > 0 && TotalSteps() >= options_.limits.max_steps) {
         Fail(fmt::format("step limit of {} steps reached at t = {:.6g} s", options_.limits.max_steps, t));
         return;
@@ -273,11 +290,16 @@ class Run {
         if (!HandleEvent(t, flagged)) return;
       }
       if (t >= t_end_) break;
+      if (next_action_ < actions_.size() && t >= actions_[next_action_].t) {
+        if (!ApplyActions(t)) return;
+        ArmStopTime(t);
+      }
       if (flag == IDA_TSTOP_RETURN && t >= next_gate_edge_) {
         // A gate pulse starts: the thyristors found gated and forward biased
         // fire, then the regulators take their sample and set the delay of
         // the pulses to come (not of the one that just started).
         next_gate_edge_ = NextGateEdge(t);
+        RegisterMisfires(t);
         if (!HandleEvent(t, {})) return;
         if (Regulate(t)) {
           // A pulse whose start the new delay moved to just before now is
@@ -290,7 +312,9 @@ class Run {
     }
   }
 
-  bool HandleEvent(double t, const std::vector<int>& flagged) {
+  // `force`: restart IDA even if nothing switched (a case action changed
+  // the circuit).
+  bool HandleEvent(double t, const std::vector<int>& flagged, bool force = false) {
     // Chattering guard.
     const double window = options_.events.chatter_window * (period_ > 0 ? period_ : t_end_);
     if (t - last_event_time_ < window) {
@@ -325,7 +349,7 @@ class Run {
 
     const long switchings_before = result_.summary.switchings;
     if (!Settle(t, flips)) return false;
-    if (flagged.empty() && result_.summary.switchings == switchings_before) return true;
+    if (flagged.empty() && !force && result_.summary.switchings == switchings_before) return true;
     Accumulate();  // IDAReInit below resets IDA's counters
     // Relax the parasitic fast modes (see MnaSystem::BackwardEulerStep) with
     // one tiny implicit step, then restart IDA from there.
@@ -391,7 +415,7 @@ class Run {
     for (std::size_t k = 0; k < valves_.size(); ++k) {
       const Valve& v = *valves_[k].valve;
       const bool on = states_[v.switch_slot()];
-      if (!on && !Armed(static_cast<int>(k), t)) continue;
+      if (forced_[k] || (!on && !Armed(static_cast<int>(k), t))) continue;
       const double breach = on ? (v.params().i_h - v.Current(y)) / eps_i_ : (v.Voltage(y) - v.params().v_f) / eps_v_;
       worst = std::max(worst, breach - 1.0);
     }
@@ -424,6 +448,7 @@ class Run {
       for (std::size_t k = 0; k < valves_.size(); ++k) {
         const Valve& v = *valves_[k].valve;
         const bool on = states_[v.switch_slot()];
+        if (forced_[k]) continue;  // failed open or short: no rule applies
         if (!on && (just_off[k] || !Armed(static_cast<int>(k), t))) continue;
         const double violation = on ? (v.params().i_h - eps_i_ - v.Current(y)) / i_ref_
                                     : (v.Voltage(y) - v.params().v_f - eps_v_) / v_ref_;
@@ -476,7 +501,7 @@ class Run {
   // shifts are included; without a bridge, 30° after the sync supply's
   // phase-a EMF rises through zero.
   void ComputeFiringReferences() {
-    const auto& firings = circuit_.firings();
+    const auto& firings = circuit_->firings();
     result_.firing_reference.assign(firings.size(), 0.0);
     if (firings.empty() || period_ <= 0) return;
     const double w = 2 * std::numbers::pi / period_;
@@ -484,16 +509,16 @@ class Run {
       if (firings[f].measured_sync()) continue;  // timed by its PLL instead
       double angle = 0.0;  // ω·t1
       if (firings[f].group >= 0 && StartPhasor()) {
-        const auto& group = circuit_.valve_groups()[firings[f].group];
-        const int a = circuit_.devices()[group.devices[0]]->nodes()[0];  // valve 1's anode
-        const int b = circuit_.devices()[group.devices[2]]->nodes()[0];  // valve 3's anode
-        const int c = circuit_.devices()[group.devices[4]]->nodes()[0];  // valve 5's anode
+        const auto& group = circuit_->valve_groups()[firings[f].group];
+        const int a = circuit_->devices()[group.devices[0]]->nodes()[0];  // valve 1's anode
+        const int b = circuit_->devices()[group.devices[2]]->nodes()[0];  // valve 3's anode
+        const int c = circuit_->devices()[group.devices[4]]->nodes()[0];  // valve 5's anode
         // Its line voltage a−c is V₁·(1 − h), h = e^(j120°): an unbalanced
         // supply still gives equidistant pulses on its positive sequence.
         const std::complex<double> h = std::polar(1.0, 2 * std::numbers::pi / 3);
         angle = -std::numbers::pi / 2 - std::arg(PositiveSequence(a, b, c) * (1.0 - h));
       } else {
-        const auto& e = static_cast<const SourceBranch&>(*circuit_.devices()[firings[f].supply_phase_device]).waveform();
+        const auto& e = static_cast<const SourceBranch&>(*circuit_->devices()[firings[f].supply_phase_device]).waveform();
         const double phase = e.sines.empty() ? 0.0 : e.sines.front().phase;
         angle = std::numbers::pi / 6 - phase;
       }
@@ -527,14 +552,14 @@ class Run {
   // instant; measured: the PLL's angle (extrapolated from its last update)
   // plus 60°, valve 1's natural instant being at θ = −60° of phase a.
   double FiringAngle(int f, double t) const {
-    if (circuit_.firings()[f].measured_sync()) {
+    if (circuit_->firings()[f].measured_sync()) {
       const Pll& p = pll_[f];
       return p.theta + p.omega * (t - p.t) + std::numbers::pi / 3;
     }
     return 2 * std::numbers::pi / period_ * (t - result_.firing_reference[f]);
   }
   double FiringSpeed(int f) const {
-    return circuit_.firings()[f].measured_sync() ? pll_[f].omega : 2 * std::numbers::pi / period_;
+    return circuit_->firings()[f].measured_sync() ? pll_[f].omega : 2 * std::numbers::pi / period_;
   }
 
   // Angle since the start of pulse g (in [0, 2π)).
@@ -547,7 +572,7 @@ class Run {
 
   bool GateActive(const Valve& v, double t) const {
     if (v.type() != Valve::Type::kThyristor || v.gate().firing < 0 || period_ <= 0) return false;
-    const Firing& f = circuit_.firings()[v.gate().firing];
+    const Firing& f = circuit_->firings()[v.gate().firing];
     const double x = PulseAngle(v.gate(), t);
     // The pulse includes its own start instant, whatever rounding did to t.
     constexpr double kSlack = 1e-9 * 2 * std::numbers::pi;
@@ -559,14 +584,104 @@ class Run {
   bool Armed(int k, double t) const {
     const Valve& v = *valves_[k].valve;
     if (v.type() != Valve::Type::kThyristor) return true;
-    return GateActive(v, t) || t < recover_until_[k];
+    return GateActive(k, t) || t < recover_until_[k];
+  }
+
+  // The gate of valve k, unless a misfire has taken this pulse away.
+  bool GateActive(int k, double t) const {
+    if (t >= suppressed_from_[k] && t < suppressed_until_[k]) return false;
+    return GateActive(*valves_[k].valve, t);
+  }
+
+  // At a gate edge: the pulses that start now and that a misfire takes away.
+  void RegisterMisfires(double t) {
+    for (std::size_t k = 0; k < valves_.size(); ++k) {
+      if (misfire_left_[k] <= 0 || t < misfire_from_[k]) continue;
+      const Valve& v = *valves_[k].valve;
+      if (v.type() != Valve::Type::kThyristor || v.gate().firing < 0) continue;
+      const double x = PulseAngle(v.gate(), t);
+      if (x > 1e-6 && x < 2 * std::numbers::pi - 1e-6) continue;  // not starting now
+      const double width = circuit_->firings()[v.gate().firing].width;
+      suppressed_from_[k] = t - 1e-9 * period_;
+      suppressed_until_[k] = t + width / FiringSpeed(v.gate().firing);
+      --misfire_left_[k];
+      result_.actions.emplace_back(t, fmt::format("{}: gate pulse lost (misfire)", v.name()));
+    }
+  }
+
+  int ValveIndex(int device) const {
+    for (std::size_t k = 0; k < valves_.size(); ++k)
+      if (valves_[k].device == device) return static_cast<int>(k);
+    return -1;
+  }
+
+  // Applies every action due at t (engine/actions.h), then settles.
+  bool ApplyActions(double t) {
+    while (next_action_ < actions_.size() && actions_[next_action_].t <= t) {
+      const EngineAction& a = actions_[next_action_++];
+      result_.actions.emplace_back(t, a.text);
+      switch (a.kind) {
+        case EngineAction::Kind::kSwitch: {
+          const Device& d = *circuit_->devices()[a.device];
+          if (static_cast<bool>(states_[d.switch_slot()]) != a.closed) {
+            states_[d.switch_slot()] = a.closed;
+            result_.events.push_back({t, a.device, a.closed, SwitchEvent::Cause::kAction});
+            ++result_.summary.switchings;
+          }
+          break;
+        }
+        case EngineAction::Kind::kValveOpen:
+        case EngineAction::Kind::kValveShort: {
+          const int k = ValveIndex(a.device);
+          if (k < 0) break;
+          const bool on = a.kind == EngineAction::Kind::kValveShort;
+          forced_[k] = on ? 2 : 1;
+          auto& state = states_[valves_[k].valve->switch_slot()];
+          if (static_cast<bool>(state) != on) {
+            state = on;
+            result_.events.push_back({t, a.device, on, SwitchEvent::Cause::kAction});
+            ++result_.summary.switchings;
+          }
+          break;
+        }
+        case EngineAction::Kind::kMisfire:
+          for (std::size_t k = 0; k < valves_.size(); ++k) {
+            const GateRef& g = valves_[k].valve->gate();
+            if (g.firing == a.firing && g.pulse == a.pulse) {
+              misfire_left_[k] += a.pulses;
+              misfire_from_[k] = t;
+            }
+          }
+          break;
+        case EngineAction::Kind::kRebind: {
+          std::string error;
+          if (!mna_.Rebind(*a.circuit, &error)) {
+            Fail(fmt::format("{} ({} at t = {:.9g} s)", error, a.text, t));
+            return false;
+          }
+          const Circuit* old = circuit_;
+          circuit_ = a.circuit;
+          study_ = a.study;
+          for (auto& v : valves_) v.valve = static_cast<const Valve*>(circuit_->devices()[v.device].get());
+          for (std::size_t f = 0; f < circuit_->firings().size(); ++f) {
+            const Firing& now = circuit_->firings()[f];
+            if (now.regulate_probe < 0 && now.alpha != old->firings()[f].alpha) alpha_now_[f] = now.alpha;
+          }
+          result_.final_alpha = alpha_now_;
+          sink_.OnProbesChange(study_->probes);
+          break;
+        }
+      }
+    }
+    next_gate_edge_ = NextGateEdge(t);
+    return HandleEvent(t, {}, /*force=*/true);
   }
 
   // Sampled PI regulators (see Firing in models/circuit.h).
   // Returns true if some delay angle changed.
   bool Regulate(double t) {
     bool changed = false;
-    const auto& firings = circuit_.firings();
+    const auto& firings = circuit_->firings();
     const double* y = N_VGetArrayPointer(y_.get());
     const double* yp = N_VGetArrayPointer(yp_.get());
     for (std::size_t f = 0; f < firings.size(); ++f) {
@@ -578,7 +693,7 @@ class Run {
       // synchronously sampled average, as drive controllers measure), not
       // its instantaneous value, which carries the six-pulse ripple.
       const double measured = dt > 0 ? regulated_integral_[f] / dt
-                                     : EvaluateProbe(study_.probes[fr.regulate_probe], y, yp);
+                                     : EvaluateProbe(study_->probes[fr.regulate_probe], y, yp);
       regulated_integral_[f] = 0.0;
       const double error = fr.target - measured;
       const double unlimited = fr.alpha - fr.kp * error - fr.ki * (integral_[f] + error * dt);
@@ -597,7 +712,7 @@ class Run {
   void ControlExtinction(const Valve& v, double interval, double t) {
     const int f = v.gate().firing;
     if (f < 0 || period_ <= 0) return;
-    const Firing& fr = circuit_.firings()[f];
+    const Firing& fr = circuit_->firings()[f];
     if (fr.gamma <= 0) return;
     const double gamma = 2 * std::numbers::pi / period_ * interval;
     constexpr double kMaxStep = 2.0 * std::numbers::pi / 180.0;
@@ -611,13 +726,13 @@ class Run {
   // Adds ∫probe dt over the step just taken (trapezoid rule on the step's
   // end values) for every regulated probe.
   void AccumulateRegulated(double t_new) {
-    const auto& firings = circuit_.firings();
+    const auto& firings = circuit_->firings();
     if (regulated_integral_.empty()) return;
     const double* y = N_VGetArrayPointer(y_.get());
     const double* yp = N_VGetArrayPointer(yp_.get());
     for (std::size_t f = 0; f < firings.size(); ++f) {
       if (firings[f].regulate_probe < 0) continue;
-      const double value = EvaluateProbe(study_.probes[firings[f].regulate_probe], y, yp);
+      const double value = EvaluateProbe(study_->probes[firings[f].regulate_probe], y, yp);
       if (t_new > last_step_time_) regulated_integral_[f] += 0.5 * (value + last_regulated_value_[f]) * (t_new - last_step_time_);
       last_regulated_value_[f] = value;
     }
@@ -629,7 +744,9 @@ class Run {
   // carried it past a pulse start, which Settle() has then covered).
   void ArmStopTime(double t) {
     if (next_gate_edge_ <= t) next_gate_edge_ = NextGateEdge(t);
-    Check(IDASetStopTime(ida_.get(), std::min(t_end_, next_gate_edge_)), "IDASetStopTime");
+    double stop = std::min(t_end_, next_gate_edge_);
+    if (next_action_ < actions_.size() && actions_[next_action_].t > t) stop = std::min(stop, actions_[next_action_].t);
+    Check(IDASetStopTime(ida_.get(), stop), "IDASetStopTime");
   }
 
   // The first gate pulse start after t.
@@ -667,7 +784,7 @@ class Run {
   // synchronised before it releases pulses; the first instantaneous sample
   // can be far off while the valves take up the load.
   void StartPlls() {
-    const auto& firings = circuit_.firings();
+    const auto& firings = circuit_->firings();
     pll_.assign(firings.size(), {});
     for (std::size_t f = 0; f < firings.size(); ++f) {
       const Firing& fr = firings[f];
@@ -683,7 +800,7 @@ class Run {
   //   ω = ω0 + kp·ε + ki·∫ε dt,  θ' = ω,  kp = 2ζω_n, ki = ω_n² (ζ = 1/√2),
   // updated once per integration step (steps are far shorter than 1/ω_n).
   void UpdatePlls(double t, const double* y) {
-    const auto& firings = circuit_.firings();
+    const auto& firings = circuit_->firings();
     bool any = false;
     for (std::size_t f = 0; f < firings.size(); ++f) {
       const Firing& fr = firings[f];
@@ -754,7 +871,7 @@ class Run {
       IDAGetLastStep(mem, &h);
       IDAGetLastOrder(mem, &q);
       const double wh = 2.0 * std::numbers::pi / period_ * h;
-      recompute_algebraic = std::pow(wh, q + 1) / std::tgamma(q + 2.0) > study_.simulate->reltol;
+      recompute_algebraic = std::pow(wh, q + 1) / std::tgamma(q + 2.0) > study_->simulate->reltol;
     }
     while (true) {
       const double ts = next_sample_ * dt;
@@ -790,7 +907,7 @@ class Run {
   }
 
   void TrackCycles(double t) {
-    if (!study_.steady || period_ <= 0 || result_.summary.steady_reached) return;
+    if (!study_->steady || period_ <= 0 || result_.summary.steady_reached) return;
     const double* y = N_VGetArrayPointer(y_.get());
     const auto& diff = mna_.differential_indices();
     for (std::size_t i = 0; i < diff.size(); ++i)
@@ -802,14 +919,14 @@ class Run {
       std::vector<double> x = DifferentialState(N_VGetArrayPointer(work_.get()));
       double sum = 0.0;
       for (std::size_t i = 0; i < x.size(); ++i) {
-        const double w = study_.steady->tol * cycle_peak_[i] + atol_[diff[i]];
+        const double w = study_->steady->tol * cycle_peak_[i] + atol_[diff[i]];
         const double e = (x[i] - previous_state_[i]) / w;
         sum += e * e;
       }
       // The regulators' delay angles are states too: a loop still settling
       // is not a steady state.
       for (std::size_t f = 0; f < alpha_now_.size(); ++f) {
-        const double e = (alpha_now_[f] - previous_alpha_[f]) / (study_.steady->tol * std::numbers::pi);
+        const double e = (alpha_now_[f] - previous_alpha_[f]) / (study_->steady->tol * std::numbers::pi);
         sum += e * e;
       }
       previous_alpha_ = alpha_now_;
@@ -838,9 +955,9 @@ class Run {
         auto& s = result_.summary;
         s.steady_reached = true;
         s.steady_time = next_boundary_;
-        double until = next_boundary_ + study_.steady->cycles * period_;
-        if (study_.window) until = std::max(until, study_.window->to);  // a chosen window is recorded whole
-        t_end_ = std::min(study_.simulate->stop, until);
+        double until = next_boundary_ + study_->steady->cycles * period_;
+        if (study_->window) until = std::max(until, study_->window->to);  // a chosen window is recorded whole
+        t_end_ = std::min(study_->simulate->stop, until);
         if (t_end_ <= t) t_end_ = t;
         // A gate pulse due now is handled (and the stop time re-armed) by
         // the main loop right after this.
@@ -855,14 +972,14 @@ class Run {
   void FinishWindow() {
     auto& s = result_.summary;
     const double end = s.t_reached > 0 ? s.t_reached : 0.0;
-    if (study_.window) {  // chosen by the user; cut short if the run ended early
-      s.window_begin = std::min(study_.window->from, end);
-      s.window_end = std::min(study_.window->to, end);
+    if (study_->window) {  // chosen by the user; cut short if the run ended early
+      s.window_begin = std::min(study_->window->from, end);
+      s.window_end = std::min(study_->window->to, end);
       return;
     }
     s.window_end = end;
     if (period_ > 0) {
-      const int cycles = study_.steady ? study_.steady->cycles : 1;
+      const int cycles = study_->steady ? study_->steady->cycles : 1;
       const double whole = std::floor(end / period_ + 1e-9);
       const double n = std::min<double>(cycles, whole);
       s.window_begin = n >= 1 ? end - n * period_ : 0.0;
@@ -930,7 +1047,9 @@ class Run {
     const double* y = N_VGetArrayPointer(yv);
     for (std::size_t k = 0; k < run->valves_.size(); ++k) {
       const Valve& v = *run->valves_[k].valve;
-      if (run->states_[v.switch_slot()]) {
+      if (run->forced_[k]) {  // a failed valve never switches
+        g[2 * k] = g[2 * k + 1] = 1.0;
+      } else if (run->states_[v.switch_slot()]) {
         const double i = v.Current(y) - v.params().i_h;
         g[2 * k] = i;
         g[2 * k + 1] = i + run->eps_i_;
@@ -953,9 +1072,14 @@ class Run {
     const Valve* valve;
   };
 
-  const Circuit& circuit_;
-  const Study& study_;
+  const Circuit* circuit_;  // the present one: case actions may change values
+  const Study* study_;
   const EngineOptions& options_;
+  std::vector<EngineAction> actions_;  // in time order
+  std::size_t next_action_ = 0;
+  std::vector<std::uint8_t> forced_;   // per valve: 0 free, 1 failed open, 2 failed short
+  std::vector<int> misfire_left_;      // per valve: gate pulses still to lose
+  std::vector<double> misfire_from_, suppressed_from_, suppressed_until_;
   SampleSink& sink_;
   MnaSystem mna_;
   const int n_;
@@ -1039,7 +1163,7 @@ std::string RunSummary::BriefReport() const {
   return out;
 }
 
-std::string RunSummary::FullReport() const {
+std::string RunSummary::FullReport(bool with_wall) const {
   std::string out;
   out += fmt::format("  status                    {}\n",
                      status == Status::kCompleted ? "completed" : status == Status::kFailed ? "failed" : "not run");
@@ -1066,19 +1190,19 @@ std::string RunSummary::FullReport() const {
   out += fmt::format("  nonlinear failures        {}\n", nonlinear_failures);
   out += fmt::format("  root-function evaluations {}\n", root_evaluations);
   out += fmt::format("  output samples            {}\n", samples);
-  out += fmt::format("  wall time                 {:.4f} s\n", wall_seconds);
+  if (with_wall) out += fmt::format("  wall time                 {:.4f} s\n", wall_seconds);
   return out;
 }
 
 RunResult Simulate(const Circuit& circuit, const Study& study, const EngineOptions& options,
-                   SampleSink& sink) {
+                   SampleSink& sink, const std::vector<EngineAction>& actions) {
   if (!study.simulate) {
     RunResult r;
     r.summary.status = RunSummary::Status::kFailed;
     r.summary.message = "no simulate statement";
     return r;
   }
-  Run run(circuit, study, options, sink);
+  Run run(circuit, study, options, sink, actions);
   return run.Execute();
 }
 

@@ -27,10 +27,12 @@
 // status kFailed; the samples written until then are kept.
 #pragma once
 
+#include <atomic>
 #include <cstdint>
 #include <string>
 #include <vector>
 
+#include "engine/actions.h"
 #include "engine/lu_solver.h"
 #include "models/circuit.h"
 #include "models/study.h"
@@ -81,6 +83,9 @@ struct EngineOptions {
   struct Limits {
     long max_steps = 20'000'000;      // integration steps per run
     double max_wall_seconds = 0.0;    // 0: no limit
+    // Set from outside (Ctrl-C): the run stops at its next step, failed
+    // with the message "interrupted".
+    const std::atomic<bool>* cancel = nullptr;
   } limits;
 
   // Returns false, with the field and the broken rule, if an option is out of range.
@@ -94,6 +99,7 @@ struct SwitchEvent {
     kGate,             // a thyristor fired by its gate pulse
     kTurnOff,          // the current fell through zero (or Ih)
     kRecoveryFailure,  // forward voltage within tq re-fired it: a commutation failure
+    kAction,           // a case action: a switch operated, a valve failed open or short
   };
   double t = 0.0;
   int device = -1;  // index into Circuit::devices()
@@ -116,6 +122,9 @@ class SampleSink {
   // `yp` is null unless wants_derivatives() says the sink needs it.
   virtual void OnSample(double t, const double* y, const double* yp) = 0;
   virtual bool wants_derivatives() const { return true; }
+  // A case action changed parameter values: probes are recompiled for the
+  // new circuit (a resistor's current is v/R), same names and order.
+  virtual void OnProbesChange(const std::vector<Probe>& /*probes*/) {}
 };
 
 struct RunSummary {
@@ -154,7 +163,9 @@ struct RunSummary {
   double wall_seconds = 0.0;
 
   std::string BriefReport() const;
-  std::string FullReport() const;
+  // The full statistics; without the wall time when `with_wall` is false
+  // (outputs that must be identical from run to run).
+  std::string FullReport(bool with_wall = true) const;
 };
 
 struct RunResult {
@@ -163,12 +174,15 @@ struct RunResult {
   std::vector<ForwardVoltageEvent> forward_voltage;
   std::vector<double> firing_reference;  // per firing element: valve 1's natural instant in [0, T) (s)
   std::vector<double> final_alpha;       // per firing element: the delay angle at the end (rad)
+  // Case actions applied: time and text, in order.
+  std::vector<std::pair<double, std::string>> actions;
 };
 
 // Simulates `circuit` as `study` says, streaming samples to `sink`.
 // Requires study.simulate. Never throws for a numerical failure: the
 // summary says what happened.
+// `actions` (engine/actions.h) are applied at their instants.
 RunResult Simulate(const Circuit& circuit, const Study& study, const EngineOptions& options,
-                   SampleSink& sink);
+                   SampleSink& sink, const std::vector<EngineAction>& actions = {});
 
 }  // namespace lcc

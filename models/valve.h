@@ -31,6 +31,8 @@ struct ValveParams {
   double v_f = 0.0;     // V, forward drop while on
   double i_h = 0.0;     // A, holding current (thyristors)
   double t_q = 0.0;     // s, turn-off (recovery) time (thyristors)
+  // Ratings, for the report's checks only (0: not given).
+  double irms_max = 0.0, ipk_max = 0.0, i2t_max = 0.0, vrrm = 0.0;
 };
 
 // Which gate pulse train drives a thyristor: firing element `firing`

@@ -100,4 +100,27 @@ struct Statement : Located {
   boost::optional<StringLit> text;
 };
 
+// One line of a case: `set TARGET = EXPR` at the start, or
+// `at TIME VERB TARGET [= EXPR] [key = value ...]` during the run
+// (verbs: set, close, open, short, misfire).
+struct Action : Located {
+  boost::optional<Expr> at;
+  Ident verb;
+  Path target;
+  boost::optional<Expr> value;
+  std::vector<Setting> settings;
+};
+
+// `sweep TARGET = FROM .. TO step STEP`.
+struct RangeSweep : Located {
+  Path target;
+  Expr from, to, step;
+};
+
+// `sweep TARGET in (V1, V2, ...)`.
+struct ListSweep : Located {
+  Path target;
+  std::vector<Expr> values;
+};
+
 }  // namespace lcc::ast

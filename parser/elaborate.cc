@@ -86,7 +86,8 @@ int HarmonicOrder(const std::string& key) {
 
 class Elaborator {
  public:
-  Elaborator(Design& design, Diagnostics& diags) : design_(design), diags_(diags) {}
+  Elaborator(Design& design, Diagnostics& diags, const Overrides* overrides)
+      : design_(design), diags_(diags), overrides_(overrides) {}
 
   void RunFile(const std::string& path) {
     std::string text;
@@ -104,6 +105,15 @@ class Elaborator {
     Layout layout = LayOut(file, diags_);
     for (const auto& span : layout.statements) {
       if (diags_.saturated()) return;
+      const std::string keyword = FirstWord(layout.clean, span);
+      if (keyword == "case") {
+        CaseStatement(file, layout.clean, span);
+        continue;
+      }
+      if (keyword == "sweep") {
+        SweepStatement(file, layout.clean, span);
+        continue;
+      }
       auto statement = ParseStatement(file, layout.clean, span, diags_);
       if (statement) Statement(*statement, file);
     }
@@ -155,6 +165,7 @@ class Elaborator {
         diags_.Error(where, fmt::format("probe '{}' is not a current", f.regulate));
       }
     }
+    CheckTargets();
     for (PccSpec pcc : pending_pccs_) {
       const auto& supplies = design_.circuit.supplies();
       for (std::size_t k = 0; k < supplies.size(); ++k)
@@ -182,6 +193,292 @@ class Elaborator {
   }
 
  private:
+  // ---- cases and sweeps -------------------------------------------------------
+
+  static std::string FirstWord(const std::string& clean, const StatementSpan& span) {
+    std::size_t e = span.begin;
+    while (e < span.end && (std::isalnum(static_cast<unsigned char>(clean[e])) || clean[e] == '_')) ++e;
+    return clean.substr(span.begin, e - span.begin);
+  }
+
+  static std::string PathText(const ast::Path& p) {
+    std::string out;
+    for (const auto& part : p.parts) {
+      if (!out.empty()) out += ".";
+      out += part.name;
+      if (part.index >= 0) out += fmt::format("[{}]", part.index);
+    }
+    return out;
+  }
+
+  // `case NAME` or `case NAME { lines }`: each line a set or an at-action.
+  void CaseStatement(const FilePtr& file, const std::string& clean, const StatementSpan& span) {
+    std::size_t at = span.begin + 4;
+    while (at < span.end && std::isspace(static_cast<unsigned char>(clean[at]))) ++at;
+    std::size_t name_end = at;
+    while (name_end < span.end && (std::isalnum(static_cast<unsigned char>(clean[name_end])) || clean[name_end] == '_'))
+      ++name_end;
+    if (name_end == at || std::isdigit(static_cast<unsigned char>(clean[at]))) {
+      Error(file, at, "case needs a name", "for example: case dc_short { at 300 ms close Sdc }");
+      return;
+    }
+    CaseDecl decl;
+    decl.name = clean.substr(at, name_end - at);
+    decl.loc = SourceLoc{file, at};
+    for (const auto& other : design_.batch.cases)
+      if (other.name == decl.name) {
+        Error(file, at, fmt::format("a second case named '{}'", decl.name));
+        diags_.Note(other.loc, "the first is here");
+        return;
+      }
+    std::size_t open = name_end;
+    while (open < span.end && std::isspace(static_cast<unsigned char>(clean[open]))) ++open;
+    if (open < span.end) {
+      std::size_t close = span.end;
+      while (close > open && std::isspace(static_cast<unsigned char>(clean[close - 1]))) --close;
+      if (clean[open] != '{' || close == open + 0 || clean[close - 1] != '}') {
+        Error(file, open, "expected '{' and the case's lines, ending with '}'",
+              "for example: case sag {\n        at 300 ms set Grid.Vll = 0.7 * Vll\n    }");
+        return;
+      }
+      // The lines between the braces, one action each.
+      std::size_t line = open + 1;
+      const std::size_t body_end = close - 1;
+      while (line < body_end) {
+        std::size_t end = clean.find('\n', line);
+        if (end == std::string::npos || end > body_end) end = body_end;
+        std::size_t b = line, e = end;
+        while (b < e && std::isspace(static_cast<unsigned char>(clean[b]))) ++b;
+        while (e > b && std::isspace(static_cast<unsigned char>(clean[e - 1]))) --e;
+        if (b < e) {
+          auto action = ParseAction(file, clean, StatementSpan{b, e}, diags_);
+          if (action) CaseAction(*action, file, &decl);
+        }
+        line = end + 1;
+      }
+    }
+    std::stable_sort(decl.timed.begin(), decl.timed.end(),
+                     [](const TimedActionSpec& a, const TimedActionSpec& b) { return a.t < b.t; });
+    design_.batch.cases.push_back(std::move(decl));
+  }
+
+  void CaseAction(const ast::Action& a, const FilePtr& file, CaseDecl* decl) {
+    using Verb = TimedActionSpec::Verb;
+    static const std::map<std::string, Verb> kVerbs{{"set", Verb::kSet}, {"close", Verb::kClose},
+                                                    {"open", Verb::kOpen}, {"short", Verb::kShort},
+                                                    {"misfire", Verb::kMisfire}};
+    auto verb = kVerbs.find(a.verb.name);
+    if (verb == kVerbs.end()) {
+      Error(file, a.verb.offset, fmt::format("unknown action '{}'", a.verb.name),
+            "actions are set, close, open, short and misfire");
+      return;
+    }
+    TimedActionSpec spec;
+    spec.verb = verb->second;
+    spec.target = PathText(a.target);
+    spec.loc = SourceLoc{file, a.target.offset};
+    if (a.at) {
+      auto t = EvaluateConstant(*a.at, file);
+      if (!t) return;
+      if (!(t->dim == dims::kTime) || t->value < 0) {
+        Error(file, a.at->offset, "the time of an action must be a time of 0 s or more");
+        return;
+      }
+      spec.t = t->value;
+    } else if (spec.verb != Verb::kSet) {
+      Error(file, a.verb.offset, fmt::format("{} needs a time", a.verb.name),
+            fmt::format("for example: at 300 ms {} {}", a.verb.name, spec.target));
+      return;
+    }
+    if (spec.verb == Verb::kSet) {
+      if (!a.value) {
+        Error(file, a.target.offset + spec.target.size(), "set needs '= value'");
+        return;
+      }
+      auto q = EvaluateConstant(*a.value, file);
+      if (!q) return;
+      spec.value = *q;
+    } else if (a.value) {
+      Error(file, a.value->offset, fmt::format("{} takes no value", a.verb.name));
+      return;
+    }
+    for (const auto& setting : a.settings) {
+      if (spec.verb != Verb::kMisfire || setting.key.name != "pulses" ||
+          setting.value.get().type() != typeid(ast::Expr)) {
+        Error(file, setting.key.offset, fmt::format("{} has no setting '{}'", a.verb.name, setting.key.name),
+              spec.verb == Verb::kMisfire ? "misfire takes pulses = N" : "");
+        return;
+      }
+      auto n = EvaluateConstant(boost::get<ast::Expr>(setting.value), file);
+      if (!n) return;
+      if (!n->dim.dimensionless() || n->value < 1 || n->value != std::floor(n->value)) {
+        Error(file, setting.key.offset, "pulses must be a whole number of 1 or more");
+        return;
+      }
+      spec.pulses = static_cast<int>(n->value);
+    }
+    pending_targets_.push_back({spec.target, spec.loc, spec.value, spec.verb == Verb::kSet, spec.verb, spec.t,
+                                a.at.has_value()});
+    if (spec.verb == Verb::kSet && !a.at) {
+      decl->start[spec.target] = spec.value;
+    } else {
+      decl->timed.push_back(spec);
+    }
+  }
+
+  void SweepStatement(const FilePtr& file, const std::string& clean, const StatementSpan& span) {
+    std::size_t b = span.begin + 5;
+    while (b < span.end && std::isspace(static_cast<unsigned char>(clean[b]))) ++b;
+    auto syntax = ParseSweep(file, clean, StatementSpan{b, span.end}, diags_);
+    if (!syntax) return;
+    SweepDecl decl;
+    std::vector<Quantity> values;
+    if (syntax->range) {
+      const auto& r = *syntax->range;
+      decl.target = PathText(r.target);
+      decl.loc = SourceLoc{file, r.target.offset};
+      auto from = EvaluateConstant(r.from, file), to = EvaluateConstant(r.to, file), step = EvaluateConstant(r.step, file);
+      if (!from || !to || !step) return;
+      if (!(from->dim == to->dim) || !(from->dim == step->dim)) {
+        Error(file, r.step.offset, "the range's start, end and step must have the same unit");
+        return;
+      }
+      if (step->value <= 0 || to->value < from->value) {
+        Error(file, r.step.offset, "a sweep runs upwards: the step must be positive and the end at least the start");
+        return;
+      }
+      const double n = std::floor((to->value - from->value) / step->value + 1e-9);
+      if (n > 10000) {
+        Error(file, r.step.offset, fmt::format("the range has {:g} points, more than 10000", n + 1));
+        return;
+      }
+      for (int k = 0; k <= static_cast<int>(n); ++k) values.push_back({from->value + k * step->value, from->dim});
+      // Labels in the unit the start is written in (`0 deg .. 75 deg`).
+      std::string unit;
+      double scale = 1.0;
+      if (r.from.rest.empty() && r.from.first.get().type() == typeid(ast::Number)) {
+        unit = boost::get<ast::Number>(r.from.first).unit;
+        if (auto info = LookUpUnit(unit)) scale = info->scale;
+      }
+      if (!unit.empty())
+        for (const auto& v : values) decl.labels.push_back(fmt::format("{:.6g}{}", v.value / scale, unit));
+    } else {
+      const auto& l = *syntax->list;
+      decl.target = PathText(l.target);
+      decl.loc = SourceLoc{file, l.target.offset};
+      for (const auto& e : l.values) {
+        auto q = EvaluateConstant(e, file);
+        if (!q) return;
+        // The label is the value as written, blanks removed.
+        std::size_t end = e.offset;
+        int depth = 0;
+        while (end < span.end && !(depth == 0 && (clean[end] == ',' || clean[end] == ')'))) {
+          depth += clean[end] == '(' ? 1 : clean[end] == ')' ? -1 : 0;
+          ++end;
+        }
+        std::string label;
+        for (std::size_t i = e.offset; i < end; ++i)
+          if (!std::isspace(static_cast<unsigned char>(clean[i]))) label += clean[i];
+        decl.labels.push_back(label);
+        if (!values.empty() && !(q->dim == values.front().dim)) {
+          Error(file, e.offset, "the values of a sweep must have the same unit");
+          return;
+        }
+        values.push_back(*q);
+      }
+    }
+    for (const auto& other : design_.batch.sweeps)
+      if (other.target == decl.target) {
+        diags_.Error(decl.loc, fmt::format("{} is swept twice", decl.target));
+        diags_.Note(other.loc, "the first sweep is here");
+        return;
+      }
+    decl.values = values;
+    pending_targets_.push_back({decl.target, decl.loc, values.front(), true, TimedActionSpec::Verb::kSet, 0.0, false});
+    design_.batch.sweeps.push_back(std::move(decl));
+  }
+
+  // Every case and sweep target names something that exists and takes the
+  // value given; every action falls before the stop time.
+  void CheckTargets() {
+    using Verb = TimedActionSpec::Verb;
+    const double stop = design_.study.simulate ? design_.study.simulate->stop : 0.0;
+    for (const auto& p : pending_targets_) {
+      if (p.timed && stop > 0 && p.t >= stop) {
+        diags_.Error(p.loc, fmt::format("the action at {:g} s falls at or after the stop time ({:g} s)", p.t, stop));
+        continue;
+      }
+      const std::size_t dot = p.target.find('.');
+      const std::size_t bracket = p.target.find('[');
+      const std::string element = p.target.substr(0, std::min(dot, bracket));
+      int index = -1;
+      if (bracket != std::string::npos && dot == std::string::npos)
+        index = std::atoi(p.target.c_str() + bracket + 1);
+      auto kind_it = element_kinds_.find(element);
+      const KindSpec* kind = kind_it == element_kinds_.end() ? nullptr : kind_it->second;
+      if (p.verb == Verb::kSet) {
+        if (dot == std::string::npos && bracket == std::string::npos) {
+          auto param = params_.find(p.target);
+          if (param == params_.end()) {
+            diags_.Error(p.loc, fmt::format("no parameter or element key '{}'", p.target),
+                         "write ELEMENT.KEY (for example Grid.Vll) or the name of a param");
+          } else if (!p.value.dim.dimensionless() && !(p.value.dim == param->second.dim)) {
+            diags_.Error(p.loc, fmt::format("{} is {}, the value given is {}", p.target, DimName(param->second.dim),
+                                            DimName(p.value.dim)));
+          }
+          continue;
+        }
+        if (!kind || bracket != std::string::npos) {
+          diags_.Error(p.loc, fmt::format("no element named '{}'", element));
+          continue;
+        }
+        const std::string key = p.target.substr(dot + 1);
+        const KeySpec* spec = FindKey(*kind, key);
+        if (!spec && !(kind->harmonic_keys && HarmonicOrder(key))) {
+          diags_.Error(p.loc, fmt::format("{} has no key '{}'", kind->name, key), "its keys are: " + KeyList(*kind));
+          continue;
+        }
+        if (spec && spec->type != KeyType::kNumber) {
+          diags_.Error(p.loc, fmt::format("{} of {} is not a number; only numeric keys can be set", key, kind->name));
+          continue;
+        }
+        if (spec && !p.value.dim.dimensionless() && !(p.value.dim == spec->dim)) {
+          diags_.Error(p.loc, fmt::format("{} of {} expects {}, found {}", key, kind->name, DimName(spec->dim),
+                                          DimName(p.value.dim)));
+          continue;
+        }
+        if (spec && spec->angle)
+          for (auto& sweep : design_.batch.sweeps)
+            if (sweep.target == p.target) sweep.angle = true;
+        continue;
+      }
+      if (!kind) {
+        diags_.Error(p.loc, fmt::format("no element named '{}'", element));
+        continue;
+      }
+      const bool valve_kind = kind->name == "diode" || kind->name == "thyristor";
+      const bool bridge_valve = kind->name == "bridge" && index >= 1 && index <= 6;
+      if (p.verb == Verb::kMisfire) {
+        if (kind->name != "firing" || index < 1 || index > 6)
+          diags_.Error(p.loc, "misfire needs a firing element's pulse train, FIRING[1] .. FIRING[6]");
+        continue;
+      }
+      if (p.verb == Verb::kShort && !(valve_kind || bridge_valve)) {
+        diags_.Error(p.loc, "short needs a valve: a diode, a thyristor or BRIDGE[1] .. BRIDGE[6]");
+        continue;
+      }
+      if (p.verb == Verb::kClose && kind->name != "switch") {
+        diags_.Error(p.loc, "close needs a switch", valve_kind || bridge_valve ? "a valve that fails conducting: short" : "");
+        continue;
+      }
+      if (p.verb == Verb::kOpen && !(kind->name == "switch" || valve_kind || bridge_valve)) {
+        diags_.Error(p.loc, "open needs a switch or a valve");
+        continue;
+      }
+      if (kind->name == "bridge" && !bridge_valve) diags_.Error(p.loc, "name one valve: BRIDGE[1] .. BRIDGE[6]");
+    }
+  }
+
   // ---- statements ---------------------------------------------------------
 
   void Statement(const ast::Statement& s, const FilePtr& file) {
@@ -191,14 +488,19 @@ class Elaborator {
     if (kw == "probe") return ProbeStatement(s, file);
     if (kw == "simulate" || kw == "steady" || kw == "window" || kw == "pcc") return StudyStatement(s, file);
     if (const KindSpec* kind = FindElementKind(kw)) return Element(*kind, s, file);
-    static const std::set<std::string> kLater{"case", "sweep", "define", "at", "set"};
+    static const std::set<std::string> kLater{"define"};
+    if (kw == "at" || kw == "set") {
+      Error(file, s.keyword.offset, fmt::format("'{}' belongs inside a case block", kw),
+                "for example: case sag { at 300 ms set Grid.Vll = 0.7 * Vll }");
+      return;
+    }
     if (kLater.count(kw)) {
       Error(file, s.keyword.offset, fmt::format("'{}' is not supported by this version", kw));
       return;
     }
     Error(file, s.keyword.offset, fmt::format("unknown kind or statement '{}'", kw),
           "element kinds are " + KindList() +
-              "; statements are param, include, simulate, steady, window, pcc, probe");
+              "; statements are param, include, simulate, steady, window, pcc, probe, case, sweep");
   }
 
   // A statement of the form `keyword NAME = value` (param, probe).
@@ -230,6 +532,7 @@ class Elaborator {
     const std::string& name = set->key.name;
     if (!DeclareName(name, file, set->key.offset)) return;
     auto q = EvaluateConstant(boost::get<ast::Expr>(set->value), file);
+    if (q && overrides_ && overrides_->count(name)) q->value = overrides_->at(name);
     if (q) params_[name] = *q;
   }
 
@@ -390,9 +693,17 @@ class Elaborator {
       return;
     }
 
+    if (named_ok) element_kinds_[name] = &kind;
     Settings set;
     if (!ReadSettings(kind, s, file, &set) || !named_ok) return;
     SourceLoc loc{file, s.name->offset};
+    if (overrides_)
+      for (const auto& [target, value] : *overrides_)
+        if (target.size() > name.size() + 1 && target.compare(0, name.size() + 1, name + ".") == 0) {
+          const std::string key = target.substr(name.size() + 1);
+          set.numbers[key] = value;
+          if (!set.where.count(key)) set.where[key] = loc;
+        }
     auto node = [&](const ast::Ident& id) { return design_.circuit.Node(id.name, SourceLoc{file, id.offset}); };
 
     // Two-terminal elements whose terminals coincide are always a mistake.
@@ -647,7 +958,14 @@ class Elaborator {
       line_alias(hv_w, hv_term[k], fmt::format("{}.{}", name, hv_port[k]));
       line_alias(lv_w, lv_term[k], fmt::format("{}.{}", name, phase[k]));
     }
-    TransformerGroup info{name, loc, group_name, S, set.number("V1"), set.number("V2"), set.number("z")};
+    TransformerGroup info;
+    info.name = name;
+    info.loc = loc;
+    info.vector_group = group_name;
+    info.s_rated = S;
+    info.v1 = set.number("V1");
+    info.v2 = set.number("V2");
+    info.z = set.number("z");
     for (int k = 0; k < 3; ++k) {
       info.hv[k] = hv_term[k];
       info.lv[k] = lv_term[k];
@@ -688,7 +1006,9 @@ class Elaborator {
   }
 
   static ValveParams ValveParamsOf(const Settings& set) {
-    return {set.number("Ron", 1e-3), set.number("Roff", 1e9), set.number("Vf"), set.number("Ih"), set.number("tq")};
+    return {set.number("Ron", 1e-3), set.number("Roff", 1e9), set.number("Vf"),       set.number("Ih"),
+            set.number("tq"),         set.number("Irms_max"),  set.number("Ipk_max"), set.number("I2t_max"),
+            set.number("Vrrm")};
   }
 
   bool CheckValveParams(const ValveParams& p, const Settings& set, const FilePtr& file) {
@@ -1140,6 +1460,19 @@ class Elaborator {
   std::map<std::string, SourceLoc> probe_names_;
   std::vector<PendingProbe> probes_;
   std::vector<PccSpec> pending_pccs_;  // resolved once every supply is known
+  const Overrides* overrides_ = nullptr;
+  std::map<std::string, const KindSpec*> element_kinds_;
+  // Case and sweep targets, checked once every element is known.
+  struct PendingTarget {
+    std::string target;
+    SourceLoc loc;
+    Quantity value;
+    bool has_value = false;
+    TimedActionSpec::Verb verb = TimedActionSpec::Verb::kSet;
+    double t = 0.0;
+    bool timed = false;
+  };
+  std::vector<PendingTarget> pending_targets_;
   std::vector<std::string> include_stack_;
 
   struct CoreUse {
@@ -1155,18 +1488,19 @@ class Elaborator {
 
 }  // namespace
 
-std::unique_ptr<Design> ElaborateFile(const std::string& path, Diagnostics& diags) {
+std::unique_ptr<Design> ElaborateFile(const std::string& path, Diagnostics& diags, const Overrides* overrides) {
   auto design = std::make_unique<Design>();
-  Elaborator e(*design, diags);
+  Elaborator e(*design, diags, overrides);
   e.RunFile(path);
   if (!diags.has_errors()) e.Finish();
   if (diags.has_errors()) return nullptr;
   return design;
 }
 
-std::unique_ptr<Design> ElaborateText(const std::string& name, std::string text, Diagnostics& diags) {
+std::unique_ptr<Design> ElaborateText(const std::string& name, std::string text, Diagnostics& diags,
+                                      const Overrides* overrides) {
   auto design = std::make_unique<Design>();
-  Elaborator e(*design, diags);
+  Elaborator e(*design, diags, overrides);
   e.RunText(std::make_shared<SourceFile>(name, std::move(text)));
   if (!diags.has_errors()) e.Finish();
   if (diags.has_errors()) return nullptr;

@@ -14,6 +14,7 @@
 
 #include "models/circuit.h"
 #include "models/study.h"
+#include "parser/batch.h"
 #include "parser/diagnostics.h"
 
 namespace lcc {
@@ -22,14 +23,18 @@ struct Design {
   std::vector<std::shared_ptr<const SourceFile>> files;  // main file first
   Circuit circuit;
   Study study;
+  Batch batch;   // the `case` and `sweep` statements
 };
 
-// Returns the design, or nullptr when `diags` holds errors.
-std::unique_ptr<Design> ElaborateFile(const std::string& path, Diagnostics& diags);
+// Returns the design, or nullptr when `diags` holds errors. With
+// `overrides`, the named parameters and element keys take those values
+// instead of the ones written (a case's design).
+std::unique_ptr<Design> ElaborateFile(const std::string& path, Diagnostics& diags,
+                                      const Overrides* overrides = nullptr);
 
 // The same for text in memory (`name` is used in messages; includes are
 // resolved relative to the current directory).
 std::unique_ptr<Design> ElaborateText(const std::string& name, std::string text,
-                                      Diagnostics& diags);
+                                      Diagnostics& diags, const Overrides* overrides = nullptr);
 
 }  // namespace lcc

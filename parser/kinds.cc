@@ -83,6 +83,10 @@ std::vector<KeySpec> ValveKeys() {
       Num("Ron", dims::kResistance, 1e-3, kPos, "on-state resistance"),
       Num("Roff", dims::kResistance, 1e9, kPos, "off-state resistance"),
       Num("Vf", dims::kVoltage, 0.0, kNonNeg, "forward voltage drop while conducting"),
+      Num("Irms_max", dims::kCurrent, std::nullopt, kPos, "rated rms current (the report flags a valve above it)"),
+      Num("Ipk_max", dims::kCurrent, std::nullopt, kPos, "rated peak (surge) current"),
+      Num("I2t_max", Dim{0, 0, 1, 2}, std::nullopt, kPos, "rated I²t (fuse coordination), A²s"),
+      Num("Vrrm", dims::kVoltage, std::nullopt, kPos, "rated repetitive peak reverse voltage"),
   };
 }
 
@@ -125,7 +129,7 @@ const std::vector<KindSpec>& ElementKinds() {
     {
       std::vector<KeySpec> keys = {Word("state", {"open", "closed"}, "closed", "position")};
       for (auto& k : ValveKeys())
-        if (k.name != "Vf") keys.push_back(k);
+        if (k.name == "Ron" || k.name == "Roff") keys.push_back(k);
       keys[1].doc = "resistance when closed";
       keys[2].doc = "resistance when open";
       kinds.push_back({"switch", {"a", "b"}, keys, "a switch held open or closed"});

@@ -16,6 +16,9 @@ BOOST_FUSION_ADAPT_STRUCT(lcc::ast::Expr, first, rest)
 BOOST_FUSION_ADAPT_STRUCT(lcc::ast::Call, function, args)
 BOOST_FUSION_ADAPT_STRUCT(lcc::ast::Setting, key, value)
 BOOST_FUSION_ADAPT_STRUCT(lcc::ast::Statement, keyword, name, ports, settings, text)
+BOOST_FUSION_ADAPT_STRUCT(lcc::ast::Action, at, verb, target, value, settings)
+BOOST_FUSION_ADAPT_STRUCT(lcc::ast::RangeSweep, target, from, to, step)
+BOOST_FUSION_ADAPT_STRUCT(lcc::ast::ListSweep, target, values)
 
 namespace lcc {
 namespace grammar {
@@ -297,6 +300,9 @@ class call_class : public annotate_position {};
 class value_class {};
 class setting_class : public annotate_position {};
 class statement_class : public annotate_position {};
+class action_class : public annotate_position {};
+class range_sweep_class : public annotate_position {};
+class list_sweep_class : public annotate_position {};
 
 x3::rule<expr_class, ast::Expr> const expr = "an expression";
 x3::rule<term_class, ast::Expr> const term = "an expression";
@@ -321,7 +327,18 @@ auto const setting_def = ident >> x3::lit('=') > value;
 auto const statement_def = ident >> -element_name >> -ports_tuple >> *setting >>
                            -string_lit;
 
-BOOST_SPIRIT_DEFINE(expr, term, power, unary, unary_op, primary, call, value, setting, statement)
+// A keyword that is a whole word (`at` is not the start of `attack`).
+inline auto Keyword(const char* word) { return x3::lexeme[x3::lit(word) >> !x3::char_("A-Za-z0-9_")]; }
+
+x3::rule<action_class, ast::Action> const action = "a case action";
+x3::rule<range_sweep_class, ast::RangeSweep> const range_sweep = "a sweep range";
+x3::rule<list_sweep_class, ast::ListSweep> const list_sweep = "a sweep list";
+auto const action_def = -(Keyword("at") > expr) >> ident > path >> -(x3::lit('=') > expr) >> *setting;
+auto const range_sweep_def = path >> x3::lit('=') >> expr >> x3::lit("..") > expr > Keyword("step") > expr;
+auto const list_sweep_def = path >> Keyword("in") > x3::lit('(') > (expr % ',') > x3::lit(')');
+
+BOOST_SPIRIT_DEFINE(expr, term, power, unary, unary_op, primary, call, value, setting, statement, action,
+                    range_sweep, list_sweep)
 
 }  // namespace grammar
 
@@ -342,37 +359,79 @@ std::string Describe(const char* it, const char* last) {
 
 }  // namespace
 
-std::optional<ast::Statement> ParseStatement(const std::shared_ptr<const SourceFile>& file,
-                                             const std::string& clean_text,
-                                             const StatementSpan& span, Diagnostics& diags) {
+namespace {
+
+// Parses [span.begin, span.end) with `rule` into `result`; a syntax error
+// becomes a diagnostic. `what` names the form in the message.
+template <typename Rule, typename Attr>
+bool ParseSpan(const std::shared_ptr<const SourceFile>& file, const std::string& clean_text, const StatementSpan& span,
+               Diagnostics& diags, const Rule& rule, Attr& result, const char* what, const char* hint,
+               bool report = true) {
   namespace x3 = boost::spirit::x3;
   const char* begin = clean_text.data();
   const char* first = begin + span.begin;
   const char* const last = begin + span.end;
   auto loc = [&](const char* at) { return SourceLoc{file, static_cast<std::size_t>(at - begin)}; };
   auto const skipper = x3::char_(" \t\r\n");
-  auto const parser = x3::with<grammar::begin_tag>(begin)[grammar::statement];
-  ast::Statement result;
+  auto const parser = x3::with<grammar::begin_tag>(begin)[rule];
   try {
     bool ok = x3::phrase_parse(first, last, parser, skipper, result);
     while (first != last && grammar::IsBlank(*first)) ++first;
     if (!ok) {
-      diags.Error(loc(first), "expected a statement", "statements begin with a keyword such as resistor, param or probe");
-      return std::nullopt;
+      if (report) diags.Error(loc(first), std::string("expected ") + what, hint);
+      return false;
     }
     if (first != last) {
-      diags.Error(loc(first), "unexpected " + Describe(first, last),
-                  "settings are written key = value, separated by blanks");
-      return std::nullopt;
+      if (report) diags.Error(loc(first), "unexpected " + Describe(first, last), hint);
+      return false;
     }
   } catch (const x3::expectation_failure<const char*>& e) {
-    diags.Error(loc(e.where()), "expected " + e.which() + ", found " + Describe(e.where(), last));
-    return std::nullopt;
+    if (report) diags.Error(loc(e.where()), "expected " + e.which() + ", found " + Describe(e.where(), last));
+    return false;
   } catch (const grammar::TokenError& e) {
-    diags.Error(loc(e.where), e.message, e.hint);
-    return std::nullopt;
+    if (report) diags.Error(loc(e.where), e.message, e.hint);
+    return false;
   }
+  return true;
+}
+
+}  // namespace
+
+std::optional<ast::Statement> ParseStatement(const std::shared_ptr<const SourceFile>& file,
+                                             const std::string& clean_text,
+                                             const StatementSpan& span, Diagnostics& diags) {
+  ast::Statement result;
+  if (!ParseSpan(file, clean_text, span, diags, grammar::statement, result, "a statement",
+                 "statements begin with a keyword such as resistor, param or probe"))
+    return std::nullopt;
   return result;
+}
+
+std::optional<ast::Action> ParseAction(const std::shared_ptr<const SourceFile>& file, const std::string& clean_text,
+                                       const StatementSpan& span, Diagnostics& diags) {
+  ast::Action result;
+  if (!ParseSpan(file, clean_text, span, diags, grammar::action, result, "a case action",
+                 "write set ELEMENT.KEY = VALUE, or at TIME close|open|short|misfire|set ..."))
+    return std::nullopt;
+  return result;
+}
+
+std::optional<SweepSyntax> ParseSweep(const std::shared_ptr<const SourceFile>& file, const std::string& clean_text,
+                                      const StatementSpan& span, Diagnostics& diags) {
+  SweepSyntax out;
+  // The range form when there is a '..', the list form otherwise.
+  const bool range = clean_text.substr(span.begin, span.end - span.begin).find("..") != std::string::npos;
+  const char* hint = "write sweep TARGET = FROM .. TO step STEP, or sweep TARGET in (V1, V2, ...)";
+  if (range) {
+    ast::RangeSweep r;
+    if (!ParseSpan(file, clean_text, span, diags, grammar::range_sweep, r, "a sweep range", hint)) return std::nullopt;
+    out.range = std::move(r);
+  } else {
+    ast::ListSweep l;
+    if (!ParseSpan(file, clean_text, span, diags, grammar::list_sweep, l, "a sweep list", hint)) return std::nullopt;
+    out.list = std::move(l);
+  }
+  return out;
 }
 
 }  // namespace lcc

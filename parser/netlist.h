@@ -19,4 +19,16 @@ std::optional<ast::Statement> ParseStatement(const std::shared_ptr<const SourceF
                                              const std::string& clean_text,
                                              const StatementSpan& span, Diagnostics& diags);
 
+// A line of a case body (see ast::Action); `span` covers the line only.
+std::optional<ast::Action> ParseAction(const std::shared_ptr<const SourceFile>& file, const std::string& clean_text,
+                                       const StatementSpan& span, Diagnostics& diags);
+
+// What follows the keyword `sweep`: the range form or the list form.
+struct SweepSyntax {
+  std::optional<ast::RangeSweep> range;
+  std::optional<ast::ListSweep> list;
+};
+std::optional<SweepSyntax> ParseSweep(const std::shared_ptr<const SourceFile>& file, const std::string& clean_text,
+                                      const StatementSpan& span, Diagnostics& diags);
+
 }  // namespace lcc

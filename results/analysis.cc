@@ -10,6 +10,8 @@
 #include "results/closed_forms.h"
 #include "results/commutation.h"
 #include "results/harmonics.h"
+#include "models/valve.h"
+#include <fmt/format.h>
 
 namespace lcc {
 namespace {
@@ -51,7 +53,7 @@ RunFigures RunFiguresOf(const RunSummary& s) {
   r.switchings = s.switchings;
   r.samples = s.samples;
   r.wall_s = s.wall_seconds;
-  r.statistics = s.FullReport();
+  r.statistics = s.FullReport(/*with_wall=*/false);
   return r;
 }
 
@@ -291,6 +293,52 @@ class WindowAnalysis {
   std::vector<std::optional<Spectrum>> spectra_;
 };
 
+// Fault figures from the recorder's accumulators, and the valve ratings.
+void FaultAndRatings(const AnalysisInput& in, CaseAnalysis* a) {
+  const auto& ch = in.recorder->channels();
+  const auto& ex = in.recorder->extremes();
+  const Circuit& c = *in.circuit;
+  const double fault = in.recorder->fault_time();
+  FaultFigures& f = a->fault;
+  f.fault_time_s = fault;
+  for (const auto& [t, text] : in.run->actions) f.actions.push_back(fmt::format("{:.6g} s: {}", t, text));
+  auto zero = [&](int channel) { return ex[channel].first_zero_after_fault >= 0 ? ex[channel].first_zero_after_fault - fault : -1.0; };
+  if (fault >= 0 && !ex.empty()) {
+    for (const auto& b : ch.bridges) {
+      const ValveGroup& g = c.valve_groups()[b.group];
+      for (int k = 0; k < 6; ++k)
+        f.valves.push_back({c.devices()[g.devices[k]]->name(), ex[b.valve_i[k]].peak_after_fault,
+                            ex[b.valve_i[k]].square_integral_after_fault});
+      f.dc_currents.push_back({g.name + " Id", zero(b.id)});
+    }
+    for (const auto& p : ch.ac_points) {
+      for (int w : p.winding_i) f.windings.push_back({ch.channels[w].name, ex[w].peak_after_fault, 0.0});
+      if (p.kind == AcPointChannels::Kind::kSupply)
+        for (int k = 0; k < 3; ++k) f.line_currents.push_back({ch.channels[p.i[k]].name, zero(p.i[k])});
+    }
+  }
+  // Ratings of bridge valves.
+  for (std::size_t bi = 0; bi < ch.bridges.size() && bi < a->bridges.size(); ++bi) {
+    const auto& b = ch.bridges[bi];
+    const ValveGroup& g = c.valve_groups()[b.group];
+    for (int k = 0; k < 6; ++k) {
+      const Device& d = *c.devices()[g.devices[k]];
+      const ValveParams& p = static_cast<const Valve&>(d).params();
+      const ValveFigures& vf = a->bridges[bi].valves[k];
+      if (ex.empty()) break;
+      const auto& ei = ex[b.valve_i[k]];
+      const auto& ev = ex[b.valve_v[k]];
+      auto check = [&](const char* rating, double value, double limit, const char* unit) {
+        if (limit > 0) a->ratings.push_back({d.name(), rating, value, limit, unit, value > limit});
+      };
+      check("Irms_max", vf.i_rms_A, p.irms_max, "A");
+      check("Ipk_max", std::max(std::abs(ei.min), std::abs(ei.max)), p.ipk_max, "A");
+      check("I2t_max", fault >= 0 ? ei.square_integral_after_fault : vf.i2t_A2s, p.i2t_max, "A2s");
+      check("Vrrm", -std::min(ev.min, 0.0), p.vrrm, "V");
+    }
+  }
+}
+
 }  // namespace
 
 Stats StatsOf(const WindowStats& w, std::string unit) {
@@ -310,6 +358,8 @@ CaseAnalysis Analyse(const AnalysisInput& in) {
   CaseAnalysis a;
   a.case_name = in.case_name;
   a.netlist = in.netlist;
+  a.case_index = in.case_index;
+  a.folder = in.folder;
   a.notes = in.notes;
   const RunSummary& s = in.run->summary;
   a.run = RunFiguresOf(s);
@@ -341,6 +391,7 @@ CaseAnalysis Analyse(const AnalysisInput& in) {
     }
     a.firings.push_back(ff);
   }
+  FaultAndRatings(in, &a);
   a.analysis_wall_s = std::chrono::duration<double>(std::chrono::steady_clock::now() - start).count();
   return a;
 }

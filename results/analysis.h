@@ -105,11 +105,40 @@ struct RunFigures {
   double steady_time_s = -1, t_reached_s = 0, period_s = 0;
   long steps = 0, events = 0, switchings = 0, samples = 0;
   double wall_s = 0;
-  std::string statistics;           // the engine's full run report
+  std::string statistics;           // the engine's full run report, without the wall time
+};
+
+// After the first action of a case (the fault instant): what protection
+// and fuse coordination need.
+struct FaultFigures {
+  double fault_time_s = -1;           // −1: the case has no action
+  std::vector<std::string> actions;   // "0.3 s: at 300 ms close Sdc", in order
+  struct Peak {
+    std::string name;
+    double peak_A = 0;                // largest |i| from the fault instant
+    double i2t_A2s = 0;               // ∫ i² dt from the fault instant (valves)
+  };
+  std::vector<Peak> valves, windings;
+  struct Zero {
+    std::string name;
+    double after_s = -1;              // from the fault to the first current zero (−1: none in the run)
+  };
+  std::vector<Zero> dc_currents;      // each bridge's Id
+  std::vector<Zero> line_currents;    // each supply phase
+};
+
+// A valve rating given in the netlist against the simulated stress.
+struct RatingCheck {
+  std::string valve, rating;          // "B1[3]", "Ipk_max"
+  double value = 0, limit = 0;
+  std::string unit;
+  bool exceeded = false;
 };
 
 struct CaseAnalysis {
   std::string case_name, netlist;
+  int case_index = 0;
+  std::string folder;
   std::vector<std::string> notes;
   double window_begin_s = 0, window_end_s = 0, frequency_Hz = 0;
   int window_cycles = 0;
@@ -119,11 +148,15 @@ struct CaseAnalysis {
   std::vector<AcPointFigures> ac_points;
   std::vector<FiringFigures> firings;
   std::vector<Ieee519Check> ieee519;
-  double analysis_wall_s = 0;
+  FaultFigures fault;
+  std::vector<RatingCheck> ratings;
+  double analysis_wall_s = 0;         // not in the JSON: outputs stay identical from run to run
 };
 
 struct AnalysisInput {
   std::string case_name, netlist;
+  int case_index = 0;
+  std::string folder;
   std::vector<std::string> notes;
   const Circuit* circuit = nullptr;
   const Study* study = nullptr;

@@ -23,13 +23,18 @@ NLOHMANN_DEFINE_TYPE_NON_INTRUSIVE_WITH_DEFAULT(FiringFigures, name, alpha_end_d
                                                 error_pct, settling_s)
 NLOHMANN_DEFINE_TYPE_NON_INTRUSIVE_WITH_DEFAULT(RunFigures, status, message, steady_requested, steady_reached,
                                                 steady_time_s, t_reached_s, period_s, steps, events, switchings,
-                                                samples, wall_s, statistics)
+                                                samples, statistics)
 NLOHMANN_DEFINE_TYPE_NON_INTRUSIVE_WITH_DEFAULT(Ieee519Row, item, h, value_percent, limit_percent, pass)
 NLOHMANN_DEFINE_TYPE_NON_INTRUSIVE_WITH_DEFAULT(Ieee519Check, pcc, vll_V, isc_A, il_A, il_from_case, isc_over_il, table,
                                                 pulses, allowance_applied, allowance, rows, pass)
-NLOHMANN_DEFINE_TYPE_NON_INTRUSIVE_WITH_DEFAULT(CaseAnalysis, case_name, netlist, notes, window_begin_s,
-                                                window_end_s, frequency_Hz, window_cycles, run, probes, bridges,
-                                                ac_points, firings, ieee519, analysis_wall_s)
+NLOHMANN_DEFINE_TYPE_NON_INTRUSIVE_WITH_DEFAULT(FaultFigures::Peak, name, peak_A, i2t_A2s)
+NLOHMANN_DEFINE_TYPE_NON_INTRUSIVE_WITH_DEFAULT(FaultFigures::Zero, name, after_s)
+NLOHMANN_DEFINE_TYPE_NON_INTRUSIVE_WITH_DEFAULT(FaultFigures, fault_time_s, actions, valves, windings, dc_currents,
+                                                line_currents)
+NLOHMANN_DEFINE_TYPE_NON_INTRUSIVE_WITH_DEFAULT(RatingCheck, valve, rating, value, limit, unit, exceeded)
+NLOHMANN_DEFINE_TYPE_NON_INTRUSIVE_WITH_DEFAULT(CaseAnalysis, case_name, netlist, case_index, folder, notes,
+                                                window_begin_s, window_end_s, frequency_Hz, window_cycles, run,
+                                                probes, bridges, ac_points, firings, ieee519, fault, ratings)
 
 nlohmann::json ToJson(const CaseAnalysis& a) { return a; }
 

@@ -8,7 +8,8 @@ namespace lcc {
 CaseRecorder::CaseRecorder(const std::vector<Probe>& probes, const AnalysisChannels& channels, double keep,
                            double sample, double from, double to)
     : probes_(probes), channels_(channels), width_(static_cast<int>(channels.channels.size())),
-      from_(from), to_(to), half_(0.5 * sample) {
+      from_(from), to_(to), half_(0.5 * sample), sample_(sample) {
+  extremes_.assign(width_, {});
   const double span = to > from ? to - from : keep;
   capacity_ = static_cast<std::size_t>(std::ceil(span / sample)) + 4;
   times_.assign(capacity_, 0.0);
@@ -18,11 +19,29 @@ CaseRecorder::CaseRecorder(const std::vector<Probe>& probes, const AnalysisChann
 void CaseRecorder::OnSample(double t, const double* y, const double* yp) {
   probes_.OnSample(t, y, yp);
   if (width_ == 0) return;
-  if (to_ > from_ && (t < from_ - half_ || t > to_ + half_)) return;
+  const bool faulted = fault_time_ >= 0 && t >= fault_time_ - half_;
+  const bool in_window = !(to_ > from_) || (t >= from_ - half_ && t <= to_ + half_);
   const std::size_t slot = count_ % capacity_;
-  times_[slot] = t;
-  for (int c = 0; c < width_; ++c) columns_[c][slot] = channels_.channels[c].form.Evaluate(y, yp);
-  ++count_;
+  for (int c = 0; c < width_; ++c) {
+    const double x = channels_.channels[c].form.Evaluate(y, yp);
+    if (in_window) columns_[c][slot] = x;
+    Extremes& e = extremes_[c];
+    if (!e.seen) {
+      e.min = e.max = x;
+      e.seen = true;
+    }
+    e.min = std::min(e.min, x);
+    e.max = std::max(e.max, x);
+    if (!faulted) continue;
+    if (e.sign_at_fault == 0.0) e.sign_at_fault = x > 0 ? 1.0 : x < 0 ? -1.0 : 0.5;
+    e.peak_after_fault = std::max(e.peak_after_fault, std::abs(x));
+    e.square_integral_after_fault += x * x * sample_;
+    if (e.first_zero_after_fault < 0 && e.sign_at_fault != 0.5 && x * e.sign_at_fault <= 0) e.first_zero_after_fault = t;
+  }
+  if (in_window) {
+    times_[slot] = t;
+    ++count_;
+  }
 }
 
 CaseRecorder::Window CaseRecorder::Extract(double begin, double end) {

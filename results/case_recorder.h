@@ -26,6 +26,21 @@ class CaseRecorder final : public SampleSink {
 
   bool wants_derivatives() const override { return probes_.wants_derivatives(); }
   void OnSample(double t, const double* y, const double* yp) override;
+  void OnProbesChange(const std::vector<Probe>& probes) override { probes_.OnProbesChange(probes); }
+
+  // Figures over the whole run and from a fault instant on, per channel,
+  // accumulated sample by sample (the window alone would miss them).
+  void SetFaultTime(double t) { fault_time_ = t; }
+  double fault_time() const { return fault_time_; }
+  struct Extremes {
+    double min = 0.0, max = 0.0;           // whole run
+    double peak_after_fault = 0.0;         // max |x| from the fault instant
+    double square_integral_after_fault = 0.0;  // ∫x² dt from the fault instant
+    double first_zero_after_fault = -1.0;  // s; the first sample at or through zero (−1: none)
+    double sign_at_fault = 0.0;
+    bool seen = false;
+  };
+  const std::vector<Extremes>& extremes() const { return extremes_; }
 
   const ProbeRecorder& probes() const { return probes_; }
   const AnalysisChannels& channels() const { return channels_; }
@@ -48,7 +63,9 @@ class CaseRecorder final : public SampleSink {
   std::size_t count_ = 0;      // rows written in all
   std::vector<double> times_;                 // ring of times
   std::vector<std::vector<double>> columns_;  // ring of each channel
-  double from_ = 0.0, to_ = 0.0, half_ = 0.0;
+  double from_ = 0.0, to_ = 0.0, half_ = 0.0, sample_ = 0.0;
+  double fault_time_ = -1.0;
+  std::vector<Extremes> extremes_;
 };
 
 }  // namespace lcc

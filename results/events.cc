@@ -19,6 +19,7 @@ const char* CauseWord(SwitchEvent::Cause c) {
     case SwitchEvent::Cause::kGate: return "gate";
     case SwitchEvent::Cause::kTurnOff: return "turn_off";
     case SwitchEvent::Cause::kRecoveryFailure: return "recovery";
+    case SwitchEvent::Cause::kAction: return "action";
   }
   return "natural";
 }

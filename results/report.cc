@@ -118,6 +118,38 @@ void Ieee519(const CaseAnalysis& a, std::string& out) {
   }
 }
 
+void Fault(const CaseAnalysis& a, std::string& out) {
+  const FaultFigures& f = a.fault;
+  if (!f.actions.empty()) {
+    out += "Case actions\n";
+    for (const auto& line : f.actions) out += "  " + line + "\n";
+    out += "\n";
+  }
+  if (f.fault_time_s >= 0) {
+    out += fmt::format("After the first action (t = {:.6g} s)\n", f.fault_time_s);
+    out += fmt::format("  {:<22} {:>14} {:>16}\n", "valve", "peak |i| A", "I2t A2s");
+    for (const auto& v : f.valves) out += fmt::format("  {:<22} {:>14.6g} {:>16.6g}\n", v.name, v.peak_A, v.i2t_A2s);
+    if (!f.windings.empty()) {
+      out += fmt::format("  {:<22} {:>14}\n", "winding", "peak |i| A");
+      for (const auto& w : f.windings) out += fmt::format("  {:<22} {:>14.6g}\n", w.name, w.peak_A);
+    }
+    out += "  first current zero after the action:\n";
+    for (const auto& z : f.dc_currents)
+      out += fmt::format("    {:<20} {}\n", z.name, z.after_s >= 0 ? fmt::format("{:.6g} s", z.after_s) : "none in the run");
+    for (const auto& z : f.line_currents)
+      out += fmt::format("    {:<20} {}\n", z.name, z.after_s >= 0 ? fmt::format("{:.6g} s", z.after_s) : "none in the run");
+    out += "\n";
+  }
+  if (!a.ratings.empty()) {
+    out += "Valve ratings\n";
+    for (const auto& r : a.ratings)
+      out += fmt::format("  {:<10} {:<9} {:>12.6g} {} of {:>12.6g} {:<3}  {}\n", r.valve, r.rating, r.value, "", r.limit,
+                         r.unit, r.exceeded ? "EXCEEDED" : "within");
+    out += "  (Irms over the analysis window, Ipk and the reverse voltage over the whole run, I2t from the\n"
+           "   first action, or over the window without one)\n\n";
+  }
+}
+
 void Firings(const CaseAnalysis& a, std::string& out) {
   if (a.firings.empty()) return;
   out += "Firing\n";
@@ -164,6 +196,7 @@ std::string FormatReport(const CaseAnalysis& a) {
   Bridges(a, out);
   AcPoints(a, out);
   Ieee519(a, out);
+  Fault(a, out);
   Firings(a, out);
   out += "Run statistics\n";
   out += a.run.statistics;

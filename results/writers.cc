@@ -67,6 +67,18 @@ std::vector<std::pair<std::string, std::string>> SummaryCells(const CaseAnalysis
     c.emplace_back(p.name + " power factor [1]", Num(p.power_factor));
   }
   for (const auto& k : a.ieee519) c.emplace_back(k.pcc + " IEEE 519 [pass/fail]", k.pass ? "pass" : "fail");
+  if (a.fault.fault_time_s >= 0) {
+    c.emplace_back("first action [s]", Num(a.fault.fault_time_s));
+    for (const auto& v : a.fault.valves) {
+      c.emplace_back(v.name + " peak after action [A]", Num(v.peak_A));
+      c.emplace_back(v.name + " I2t after action [A2s]", Num(v.i2t_A2s));
+    }
+    for (const auto& w : a.fault.windings) c.emplace_back(w.name + " peak after action [A]", Num(w.peak_A));
+    for (const auto& z : a.fault.dc_currents) c.emplace_back(z.name + " first zero after action [s]", z.after_s >= 0 ? Num(z.after_s) : "");
+  }
+  int exceeded = 0;
+  for (const auto& r : a.ratings) exceeded += r.exceeded;
+  if (!a.ratings.empty()) c.emplace_back("valve ratings exceeded [count]", std::to_string(exceeded));
   for (const auto& f : a.firings) c.emplace_back(f.name + " alpha [deg]", Num(f.alpha_end_deg));
   return c;
 }

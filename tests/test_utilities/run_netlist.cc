@@ -76,7 +76,7 @@ CaseAnalysis AnalyseText(const std::string& text, const EngineOptions& options) 
   RunResult run = lcc::Simulate(design->circuit, study, options, recorder);
   INFO(run.summary.FullReport());
   REQUIRE(run.summary.status == RunSummary::Status::kCompleted);
-  return Analyse({"test", "test.lcc", {}, &design->circuit, &study, &recorder, &run});
+  return Analyse({"test", "test.lcc", 0, "base", {}, &design->circuit, &study, &recorder, &run});
 }
 
 const BridgeFigures& BridgeNamed(const CaseAnalysis& a, const std::string& name) {

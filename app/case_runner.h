@@ -1,0 +1,37 @@
+// One case of a batch, from netlist to files: elaborates the case's design
+// (the file with the case's and sweep point's values), one design more per
+// instant of an `at ... set` line, resolves the other actions to devices,
+// simulates, analyses and writes the case folder. Never throws: a case that
+// cannot be elaborated or simulated comes back with status `failed` and the
+// reason, and the others go on.
+#pragma once
+
+#include <set>
+#include <string>
+
+#include "engine/simulator.h"
+#include "parser/batch.h"
+#include "results/analysis.h"
+
+namespace lcc {
+
+struct CaseRunOptions {
+  std::string netlist;
+  std::string out_dir;
+  EngineOptions engine;
+  std::set<std::string> formats;
+};
+
+struct CaseRunResult {
+  CaseAnalysis analysis;
+  bool interrupted = false;  // stopped by Ctrl-C: not written, to be run again
+  double wall_seconds = 0;   // simulation and analysis
+};
+
+CaseRunResult RunCase(const CaseRunOptions& options, const CaseInstance& instance);
+
+// The case folder's analysis, if the case was completed before (its
+// analysis.json, written last, exists and reads back).
+bool LoadFinishedCase(const std::string& out_dir, const CaseInstance& instance, CaseAnalysis* analysis);
+
+}  // namespace lcc
