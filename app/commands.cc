@@ -107,6 +107,15 @@ int RunCommand(const RunCommandOptions& options, std::ostream& out, std::ostream
     return kExitInputError;
   }
 
+  // A run killed outright (SIGKILL, power loss) leaves temporary files
+  // behind, never a truncated final file; a resumed run clears them.
+  if (options.resume) {
+    std::vector<fs::path> stale;
+    for (const auto& entry : fs::recursive_directory_iterator(options.out_dir, ec))
+      if (entry.path().filename().string().find(".partial-") != std::string::npos) stale.push_back(entry.path());
+    for (const auto& p : stale) fs::remove(p, ec);
+  }
+
   std::vector<CaseInstance> cases;
   for (auto& c : ExpandCases(design->batch))
     if (c.index % options.shard_count == options.shard_index) cases.push_back(std::move(c));

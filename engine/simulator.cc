@@ -253,6 +253,13 @@ class Run {
       ArmStopTime(0.0);
     }
     while (true) {
+      // An action that fell inside the relaxation step of an event at the
+      // same instant is applied where IDA now is.
+      if (next_action_ < actions_.size() && actions_[next_action_].t <= t_restart_ && t_restart_ > t) {
+        t = t_restart_;
+        if (!ApplyActions(t)) return;
+        ArmStopTime(t);
+      }
       if (options_.limits.cancel && options_.limits.cancel->load(std::memory_order_relaxed)) {
         Fail(fmt::format("interrupted at t = {:.6g} s", t));
         return;
@@ -289,7 +296,12 @@ class Run {
         ++result_.summary.events;
         if (!HandleEvent(t, flagged)) return;
       }
-      if (t >= t_end_) break;
+      // Done; also when an event a rounding error short of the end leaves
+      // less than IDA can step (its "tout too close to t0").
+      if (t >= t_end_ - 1e-9 * result_.summary.sample_used) {
+        if (t < t_end_) EmitSamples(t_end_, dt);
+        break;
+      }
       if (next_action_ < actions_.size() && t >= actions_[next_action_].t) {
         if (!ApplyActions(t)) return;
         ArmStopTime(t);
@@ -743,6 +755,8 @@ class Run {
   // next one is re-armed from wherever the run now is (an event may have
   // carried it past a pulse start, which Settle() has then covered).
   void ArmStopTime(double t) {
+    // The relaxation step after an event may have moved IDA a little past t.
+    t = std::max(t, t_restart_);
     if (next_gate_edge_ <= t) next_gate_edge_ = NextGateEdge(t);
     double stop = std::min(t_end_, next_gate_edge_);
     if (next_action_ < actions_.size() && actions_[next_action_].t > t) stop = std::min(stop, actions_[next_action_].t);

@@ -701,6 +701,13 @@ class Elaborator {
       for (const auto& [target, value] : *overrides_)
         if (target.size() > name.size() + 1 && target.compare(0, name.size() + 1, name + ".") == 0) {
           const std::string key = target.substr(name.size() + 1);
+          const KeySpec* spec = FindKey(kind, key);
+          if (spec && !Satisfies(spec->constraint, value)) {
+            diags_.Error(loc, fmt::format("{} must be {}, found {:g}{} (the case's value)", key,
+                                          ConstraintText(spec->constraint), value,
+                                          spec->dim.dimensionless() ? "" : " " + UnitLabel(spec->dim)));
+            return;
+          }
           set.numbers[key] = value;
           if (!set.where.count(key)) set.where[key] = loc;
         }
