@@ -965,6 +965,10 @@ class Run {
       const std::size_t count = x.size() + alpha_now_.size() + loops;
       const double wrms = count == 0 ? 0.0 : std::sqrt(sum / static_cast<double>(count));
       agreeing_cycles_ = wrms <= 1.0 ? agreeing_cycles_ + 1 : 0;
+      // A case's actions are part of the run: steady counts only once the
+      // last of them has been applied (the cycles after a load step).
+      if (next_action_ < actions_.size() || (!actions_.empty() && next_boundary_ <= actions_.back().t + period_))
+        agreeing_cycles_ = 0;
       if (agreeing_cycles_ >= 2) {
         auto& s = result_.summary;
         s.steady_reached = true;

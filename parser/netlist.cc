@@ -3,6 +3,7 @@
 // that they can refuse malformed input with a precise message; the
 // expression and statement structure is ordinary X3.
 #include "parser/netlist.h"
+#include "parser/units.h"
 
 #include <boost/fusion/include/adapt_struct.hpp>
 #include <boost/spirit/home/x3.hpp>
@@ -193,6 +194,12 @@ struct number_parser : x3::parser<number_parser> {
       ++u;
     } else {
       while (u != last && IsUnitByte(*u)) ++u;
+      // A unit word with digits in it (`A2s`, `kA2s`) when it is a known unit.
+      if (u != unit_begin && u != last && IsIdentChar(*u)) {
+        Iter w = u;
+        while (w != last && IsIdentChar(*w)) ++w;
+        if (LookUpUnit(std::string_view(unit_begin, static_cast<std::size_t>(w - unit_begin)))) u = w;
+      }
     }
     if (u != unit_begin && (u == last || !IsIdentChar(*u))) {
       Iter after = u;

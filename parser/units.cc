@@ -16,7 +16,7 @@ struct NamedUnit {
 
 // Base words. "ohm" and "Ω" are the same unit; VA and var are written as
 // power (the netlist does not distinguish apparent and reactive power).
-constexpr std::array<NamedUnit, 17> kUnits{{
+constexpr std::array<NamedUnit, 18> kUnits{{
     {"V", 1.0, dims::kVoltage, true},
     {"A", 1.0, dims::kCurrent, true},
     {"ohm", 1.0, dims::kResistance, true},
@@ -28,6 +28,7 @@ constexpr std::array<NamedUnit, 17> kUnits{{
     {"W", 1.0, dims::kPower, true},
     {"VA", 1.0, dims::kPower, true},
     {"var", 1.0, dims::kPower, true},
+    {"A2s", 1.0, Dim{0, 0, 1, 2}, true},  // I²t of fuses and valves (kA2s, MA2s)
     {"J", 1.0, dims::kEnergy, true},
     {"C", 1.0, dims::kCharge, true},
     {"S", 1.0, dims::kConductance, true},

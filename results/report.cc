@@ -143,7 +143,7 @@ void Fault(const CaseAnalysis& a, std::string& out) {
   if (!a.ratings.empty()) {
     out += "Valve ratings\n";
     for (const auto& r : a.ratings)
-      out += fmt::format("  {:<10} {:<9} {:>12.6g} {} of {:>12.6g} {:<3}  {}\n", r.valve, r.rating, r.value, "", r.limit,
+      out += fmt::format("  {:<10} {:<9} {:>12.6g} of {:>12.6g} {:<3}  {}\n", r.valve, r.rating, r.value, r.limit,
                          r.unit, r.exceeded ? "EXCEEDED" : "within");
     out += "  (Irms over the analysis window, Ipk and the reverse voltage over the whole run, I2t from the\n"
            "   first action, or over the window without one)\n\n";
@@ -160,6 +160,8 @@ void Firings(const CaseAnalysis& a, std::string& out) {
                          f.error_pct);
       out += f.settling_s >= 0 ? fmt::format("within 1 % from {:.4g} s", f.settling_s)
                                : std::string("not settled within 1 %");
+      if (f.settling_s >= 0 && a.fault.fault_time_s >= 0 && f.settling_s >= a.fault.fault_time_s)
+        out += fmt::format(" ({:.4g} s after the first action)", f.settling_s - a.fault.fault_time_s);
     }
     out += "\n";
   }
