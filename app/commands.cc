@@ -166,7 +166,7 @@ int RunCommand(const RunCommandOptions& options, std::ostream& out, std::ostream
   if (options.progress && !to_run.empty()) err << "\n";
 
   std::vector<CaseAnalysis> analyses;
-  std::string timing = "case,wall [s]\n";
+  std::string timing = "case,wall [s],simulation [s]\n";
   int failed = 0;
   bool interrupted = false;
   for (std::size_t k = 0; k < cases.size(); ++k) {
@@ -176,7 +176,7 @@ int RunCommand(const RunCommandOptions& options, std::ostream& out, std::ostream
     }
     const CaseAnalysis& a = results[k]->analysis;
     if (a.run.status != "completed") ++failed;
-    timing += fmt::format("{},{:.6f}\n", a.folder, results[k]->wall_seconds);
+    timing += fmt::format("{},{:.6f},{:.6f}\n", a.folder, results[k]->wall_seconds, a.run.wall_s);
     analyses.push_back(a);
   }
   try {
