@@ -30,6 +30,7 @@
 #include <thread>
 
 #include "app/commands.h"
+#include "tests/test_utilities/files.h"
 #include "parser/elaborate.h"
 #include "tests/test_utilities/run_netlist.h"
 
@@ -38,19 +39,9 @@ namespace {
 
 namespace fs = std::filesystem;
 
-std::string Read(const fs::path& p) {
-  std::ifstream in(p, std::ios::binary);
-  std::ostringstream s;
-  s << in.rdbuf();
-  return s.str();
-}
+std::string Read(const fs::path& p) { return testing::ReadWhole(p); }
 
-fs::path Fresh(const std::string& name) {
-  const fs::path dir = fs::temp_directory_path() / (name + "-" + std::to_string(getpid()));
-  fs::remove_all(dir);
-  fs::create_directories(dir);
-  return dir;
-}
+fs::path Fresh(const std::string& name) { return testing::FreshFolder(name); }
 
 // ---- language --------------------------------------------------------------
 

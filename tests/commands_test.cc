@@ -6,6 +6,7 @@
 #include <sstream>
 
 #include "app/commands.h"
+#include "tests/test_utilities/files.h"
 
 namespace lcc {
 namespace {
@@ -20,12 +21,7 @@ fs::path WriteNetlist(const std::string& name, const std::string& text) {
   return file;
 }
 
-std::string Read(const fs::path& p) {
-  std::ifstream in(p);
-  std::ostringstream s;
-  s << in.rdbuf();
-  return s.str();
-}
+std::string Read(const fs::path& p) { return testing::ReadWhole(p); }
 
 const char* kRectifier = R"(
 supply G (a, b, c) Vll = 400 V f = 50 Hz Ssc = 2 MVA xr = 8

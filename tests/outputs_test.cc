@@ -16,18 +16,14 @@
 #include <unistd.h>
 
 #include "app/commands.h"
+#include "tests/test_utilities/files.h"
 
 namespace lcc {
 namespace {
 
 namespace fs = std::filesystem;
 
-std::string Read(const fs::path& p) {
-  std::ifstream in(p, std::ios::binary);
-  std::ostringstream s;
-  s << in.rdbuf();
-  return s.str();
-}
+std::string Read(const fs::path& p) { return testing::ReadWhole(p); }
 
 std::vector<std::string> Split(const std::string& s, char sep) {
   std::vector<std::string> out;
