@@ -10,24 +10,23 @@ namespace lcc {
 
 namespace {
 
-constexpr int kSamples = 256;  // harmonics up to 127 are exact
-
-// B_h = (2/N)·Σ_k b(t_k)·e^(−j·h·2πk/N) over one period of b(t).
-Eigen::MatrixXd SampleSources(MnaSystem& mna, double period) {
+// B_h = (2/N)·Σ_k b(t_k)·e^(−j·h·2πk/N) over one period of b(t), N samples.
+Eigen::MatrixXd SampleSources(MnaSystem& mna, double period, int samples) {
   const int n = mna.size();
-  Eigen::MatrixXd b(n, kSamples);
+  Eigen::MatrixXd b(n, samples);
   std::vector<double> column(n);
-  for (int k = 0; k < kSamples; ++k) {
-    mna.Sources(period * k / kSamples, column.data());
+  for (int k = 0; k < samples; ++k) {
+    mna.Sources(period * k / samples, column.data());
     for (int i = 0; i < n; ++i) b(i, k) = column[i];
   }
   return b;
 }
 
 Eigen::VectorXcd Harmonic(const Eigen::MatrixXd& b, int h) {
+  const int samples = static_cast<int>(b.cols());
   Eigen::VectorXcd bh = Eigen::VectorXcd::Zero(b.rows());
-  for (int k = 0; k < kSamples; ++k) {
-    const std::complex<double> w = std::polar(2.0 / kSamples, -2.0 * std::numbers::pi * h * k / kSamples);
+  for (int k = 0; k < samples; ++k) {
+    const std::complex<double> w = std::polar(2.0 / samples, -2.0 * std::numbers::pi * h * k / samples);
     for (int i = 0; i < b.rows(); ++i)
       if (b(i, k) != 0.0) bh[i] += b(i, k) * w;
   }
@@ -47,8 +46,9 @@ struct PhasorSolver::Impl {
   bool analysed = false;
 };
 
-PhasorSolver::PhasorSolver(MnaSystem& mna, double frequency)
-    : mna_(mna), frequency_(frequency), samples_(SampleSources(mna, 1.0 / frequency)), impl_(std::make_unique<Impl>()) {
+PhasorSolver::PhasorSolver(MnaSystem& mna, double frequency, int samples)
+    : mna_(mna), frequency_(frequency), samples_(SampleSources(mna, 1.0 / frequency, samples)),
+      impl_(std::make_unique<Impl>()) {
   const auto& pattern = mna.pattern();
   const int n = mna.size();
   impl_->a.resize(n, n);
@@ -82,7 +82,7 @@ bool PhasorSolver::Solve(int h, Eigen::VectorXcd* y) {
 }
 
 bool SolveHarmonicPhasor(MnaSystem& mna, double frequency, int h, Eigen::VectorXcd* y) {
-  return PhasorSolver(mna, frequency).Solve(h, y);
+  return PhasorSolver(mna, frequency, h <= 1 ? PhasorSolver::kFundamentalSamples : 256).Solve(h, y);
 }
 
 bool SolvePeriodicStart(MnaSystem& mna, double frequency, std::vector<double>* y0) {

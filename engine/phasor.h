@@ -28,7 +28,11 @@ namespace lcc {
 // which share one pattern.
 class PhasorSolver {
  public:
-  PhasorSolver(MnaSystem& mna, double frequency);
+  // `samples` per period resolve the sources' harmonics exactly below
+  // samples/2; for the fundamental alone 64 suffice (the supply's
+  // harmonics, up to h50, alias onto h = 1 only at 63 and beyond).
+  static constexpr int kFundamentalSamples = 64;
+  PhasorSolver(MnaSystem& mna, double frequency, int samples = 256);
   ~PhasorSolver();
   // The phasor Y_h of every unknown: y(t) contains Re(Y_h·e^(j·hωt)).
   // False if the system is singular at h.

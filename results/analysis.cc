@@ -22,18 +22,29 @@ constexpr int kMaxOrder = 50;
 WindowStats StatsOfColumn(std::span<const double> x) {
   WindowStats s;
   if (x.empty()) return s;
-  double sum = 0, sum2 = 0, lo = x[0], hi = x[0];
-  for (double v : x) {
-    lo = std::min(lo, v);
-    hi = std::max(hi, v);
-    sum += v;
-    sum2 += v * v;
+  // Four independent accumulators, so the loop pipelines (and vectorises).
+  double sum[4] = {}, sum2[4] = {}, lo[4] = {x[0], x[0], x[0], x[0]}, hi[4] = {x[0], x[0], x[0], x[0]};
+  const std::size_t n = x.size(), n4 = n - n % 4;
+  for (std::size_t m = 0; m < n4; m += 4)
+    for (int j = 0; j < 4; ++j) {
+      const double v = x[m + j];
+      lo[j] = v < lo[j] ? v : lo[j];
+      hi[j] = v > hi[j] ? v : hi[j];
+      sum[j] += v;
+      sum2[j] += v * v;
+    }
+  for (std::size_t m = n4; m < n; ++m) {
+    lo[0] = std::min(lo[0], x[m]);
+    hi[0] = std::max(hi[0], x[m]);
+    sum[0] += x[m];
+    sum2[0] += x[m] * x[m];
   }
-  s.samples = static_cast<int>(x.size());
-  s.min = lo;
-  s.max = hi;
-  s.mean = sum / s.samples;
-  s.rms = std::sqrt(sum2 / s.samples);
+  const double total = (sum[0] + sum[1]) + (sum[2] + sum[3]), total2 = (sum2[0] + sum2[1]) + (sum2[2] + sum2[3]);
+  s.samples = static_cast<int>(n);
+  s.min = std::min({lo[0], lo[1], lo[2], lo[3]});
+  s.max = std::max({hi[0], hi[1], hi[2], hi[3]});
+  s.mean = total / s.samples;
+  s.rms = std::sqrt(total2 / s.samples);
   return s;
 }
 
@@ -86,6 +97,21 @@ class WindowAnalysis {
     if (stats_.empty()) stats_.resize(window_.columns.size());
     if (!stats_[c]) stats_[c] = StatsOfColumn(Col(c));
     return *stats_[c];
+  }
+
+  // The fundamental phasor (peak) of a channel: one DFT bin, cheaper than a
+  // whole spectrum where only P1 and Q1 need it.
+  std::complex<double> Fundamental(int c) {
+    const auto x = Col(c);
+    const std::size_t n = x.size();
+    if (twiddle_.size() != n) {
+      twiddle_.resize(n);
+      for (std::size_t m = 0; m < n; ++m)
+        twiddle_[m] = std::polar(2.0 / n, -2.0 * std::numbers::pi * cycles_ * static_cast<double>(m) / n);
+    }
+    std::complex<double> sum = 0.0;
+    for (std::size_t m = 0; m < n; ++m) sum += x[m] * twiddle_[m];
+    return sum;
   }
 
   // The spectrum of a channel, computed once.
@@ -225,11 +251,16 @@ class WindowAnalysis {
     if (spectra_ok_) {
       double p1 = 0.0, q1 = 0.0;
       for (int k = 0; k < 3; ++k) {
+        if (k != 0) {  // phases b and c: the fundamental is all P1 and Q1 need
+          const std::complex<double> s1 = Fundamental(pc.v[k]) * std::conj(Fundamental(pc.i[k])) / 2.0;
+          p1 += s1.real();
+          q1 += s1.imag();
+          continue;
+        }
         const Spectrum &sv = SpectrumOf(pc.v[k]), &si = SpectrumOf(pc.i[k]);
         const std::complex<double> s1 = sv.phasor[1] * std::conj(si.phasor[1]) / 2.0;
         p1 += s1.real();
         q1 += s1.imag();
-        if (k != 0) continue;
         f.i1_A = si.rms(1);
         for (int h = 1; h <= si.max_order(); ++h)
           f.current_harmonics.push_back({h, si.rms(h), f.i1_A > 0 ? 100.0 * si.rms(h) / f.i1_A : 0.0,
@@ -291,6 +322,7 @@ class WindowAnalysis {
   std::vector<CommutatingCircuit> commutating_;
   std::vector<std::optional<WindowStats>> stats_;
   std::vector<std::optional<Spectrum>> spectra_;
+  std::vector<std::complex<double>> twiddle_;
 };
 
 // Fault figures from the recorder's accumulators, and the valve ratings.

@@ -16,7 +16,7 @@ std::vector<CommutatingCircuit> FindCommutatingCircuits(const Circuit& circuit, 
   MnaSystem mna(circuit);
   const std::vector<std::uint8_t> blocking(circuit.num_switch_slots(), 0);
   mna.SetSwitchStates(blocking);
-  PhasorSolver solver(mna, frequency);
+  PhasorSolver solver(mna, frequency, PhasorSolver::kFundamentalSamples);
   Eigen::VectorXcd open, shorted;
   if (!solver.Solve(1, &open)) return out;
   auto v = [](const Eigen::VectorXcd& y, int node) { return node > 0 ? y[NodeUnknown(node)] : std::complex<double>(0); };
