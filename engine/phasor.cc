@@ -82,7 +82,7 @@ bool PhasorSolver::Solve(int h, Eigen::VectorXcd* y) {
 }
 
 bool SolveHarmonicPhasor(MnaSystem& mna, double frequency, int h, Eigen::VectorXcd* y) {
-  return PhasorSolver(mna, frequency, h <= 1 ? PhasorSolver::kFundamentalSamples : 256).Solve(h, y);
+  return PhasorSolver(mna, frequency).Solve(h, y);
 }
 
 bool SolvePeriodicStart(MnaSystem& mna, double frequency, std::vector<double>* y0) {
