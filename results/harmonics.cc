@@ -1,6 +1,7 @@
 #include "results/harmonics.h"
 
 #include <fftw3.h>
+#include <Eigen/Core>
 #include <fmt/format.h>
 
 #include <cmath>
@@ -83,11 +84,9 @@ Spectrum AnalyseHarmonics(const double* x, int n, int cycles, int max_order) {
   double* in = buffers.in;
   fftw_complex* out = buffers.out;
   const fftw_plan plan = PlanFor(n);
-  double sum2 = 0.0;
-  for (int k = 0; k < n; ++k) {
-    in[k] = x[k];
-    sum2 += x[k] * x[k];
-  }
+  const Eigen::Map<const Eigen::VectorXd> samples(x, n);
+  Eigen::Map<Eigen::VectorXd>(in, n) = samples;
+  const double sum2 = samples.squaredNorm();
   fftw_execute_dft_r2c(plan, in, out);
   // X_m = Σ x_k·e^(−j2πmk/n); for m = cycles·h the peak phasor of harmonic h
   // is 2·X_m/n (its cosine part is the real part).
