@@ -256,6 +256,39 @@ TEST_CASE("AKilledBatchResumesWithoutRerunningFinishedCases", "[batch][resume]")
     REQUIRE(entry.path().filename().string().find(".partial-") == std::string::npos);
 }
 
+TEST_CASE("CtrlCStopsCleanlyKeepingFinishedCases", "[batch][resume]") {
+  const fs::path dir = Fresh("lccsim-interrupt");
+  const fs::path netlist = WriteBig(dir);
+  const fs::path out = dir / "out";
+  const pid_t pid = fork();
+  if (pid == 0) {
+    execl(LCC_BINARY, LCC_BINARY, "run", netlist.c_str(), "--out", out.c_str(), "--jobs", "2",
+          static_cast<char*>(nullptr));
+    _exit(127);
+  }
+  for (int k = 0; k < 400; ++k) {
+    std::this_thread::sleep_for(std::chrono::milliseconds(10));
+    int done = 0;
+    std::error_code ec;
+    for (const auto& entry : fs::directory_iterator(out, ec)) done += fs::exists(entry.path() / "analysis.json");
+    if (done >= 10) break;
+  }
+  kill(pid, SIGINT);
+  int status = 0;
+  waitpid(pid, &status, 0);
+  REQUIRE(WIFEXITED(status));
+  REQUIRE(WEXITSTATUS(status) == kExitInterrupted);
+  // The finished cases are in the summary; the rest are not, and a resumed
+  // run completes the batch.
+  const std::string partial = Read(out / "summary.csv");
+  const long rows = std::count(partial.begin(), partial.end(), '\n') - 1;
+  REQUIRE(rows >= 10);
+  REQUIRE(rows < 200);
+  REQUIRE(Run(netlist, out, 2, 0, 1, /*resume=*/true) == kExitOk);
+  const std::string full = Read(out / "summary.csv");
+  REQUIRE(std::count(full.begin(), full.end(), '\n') == 201);
+}
+
 TEST_CASE("AFailingCaseIsRecordedAndTheOthersComplete", "[batch]") {
   const fs::path dir = Fresh("lccsim-failing");
   std::ofstream(dir / "f.lcc") << std::string(kPlant) + "case good\ncase bad { set Rl.R = -1 ohm }\n";
