@@ -195,6 +195,8 @@ class Elaborator {
  private:
   // ---- cases and sweeps -------------------------------------------------------
 
+  static constexpr double kMaxCases = 100000;  // cases in one batch
+
   static std::string FirstWord(const std::string& clean, const StatementSpan& span) {
     std::size_t e = span.begin;
     while (e < span.end && (std::isalnum(static_cast<unsigned char>(clean[e])) || clean[e] == '_')) ++e;
@@ -402,6 +404,17 @@ class Elaborator {
   // value given; every action falls before the stop time.
   void CheckTargets() {
     using Verb = TimedActionSpec::Verb;
+    // A batch is cases × sweep points; refuse one that could not be run (or
+    // even listed) before it is expanded.
+    double cases = std::max<double>(1.0, static_cast<double>(design_.batch.cases.size()));
+    for (const auto& sweep : design_.batch.sweeps) {
+      cases *= static_cast<double>(sweep.values.size());
+      if (cases > kMaxCases) {
+        diags_.Error(sweep.loc, fmt::format("the batch would have {:g} cases, more than {:g}", cases, kMaxCases),
+                     "split the study into several files, or sweep fewer values");
+        return;
+      }
+    }
     const double stop = design_.study.simulate ? design_.study.simulate->stop : 0.0;
     for (const auto& p : pending_targets_) {
       if (p.timed && stop > 0 && p.t >= stop) {

@@ -306,3 +306,21 @@ TEST_CASE("AFailingCaseIsRecordedAndTheOthersComplete", "[batch]") {
 
 }  // namespace
 }  // namespace lcc
+
+namespace lcc {
+namespace {
+
+TEST_CASE("ABatchTooLargeToRunIsRefusedAtItsSweep", "[batch][errors]") {
+  // Three sweeps of 100 values each: a million cases, refused before any
+  // is expanded.
+  const std::string d = testing::DiagnosticsOf(std::string(kPlant) + R"(sweep Rl.R = 1 ohm .. 100 ohm step 1 ohm
+sweep Ld.L = 1 mH .. 100 mH step 1 mH
+sweep Grid.Ssc = 1 MVA .. 100 MVA step 1 MVA
+)",
+                                               "b.lcc");
+  INFO(d);
+  REQUIRE(d.find("b.lcc:11:7: error: the batch would have 1e+06 cases, more than 100000") != std::string::npos);
+}
+
+}  // namespace
+}  // namespace lcc
