@@ -211,8 +211,10 @@ class WindowAnalysis {
           ++n;
         }
       if (n) vf.overlap_deg = sum / n * kDeg;
+      // The extinction angle is an inverter's margin (α > 90°); a rectifier's
+      // valves see forward voltage again long after they turn off.
       for (const auto& fv : in_.run->forward_voltage)
-        if (fv.device == dev && fv.t >= s.window_begin && fv.t < s.window_end) {
+        if (alpha > std::numbers::pi / 2 && fv.device == dev && fv.t >= s.window_begin && fv.t < s.window_end) {
           const double gamma = omega_ * (fv.t - fv.t_off) * kDeg;
           vf.extinction_min_deg = vf.extinction_min_deg < 0 ? gamma : std::min(vf.extinction_min_deg, gamma);
         }

@@ -14,7 +14,10 @@ std::vector<CommutatingCircuit> FindCommutatingCircuits(const Circuit& circuit, 
   std::vector<CommutatingCircuit> out(groups.size());
   if (frequency <= 0 || groups.empty()) return out;
   MnaSystem mna(circuit);
-  const std::vector<std::uint8_t> blocking(circuit.num_switch_slots(), 0);
+  // Every valve blocking; switches (a breaker, a fuse-switch) as they start.
+  std::vector<std::uint8_t> blocking(circuit.num_switch_slots(), 0);
+  for (const auto& d : circuit.devices())
+    if (d->switch_slot() >= 0 && !d->natural()) blocking[d->switch_slot()] = d->initially_on();
   mna.SetSwitchStates(blocking);
   PhasorSolver solver(mna, frequency, PhasorSolver::kFundamentalSamples);
   Eigen::VectorXcd open, shorted;

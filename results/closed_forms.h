@@ -18,7 +18,7 @@
 namespace lcc {
 
 // What a bridge's AC terminals see, from two phasor solves at the
-// fundamental with every valve blocking: the open-circuit line voltage, and
+// fundamental with every valve blocking (switches as they start): the open-circuit line voltage, and
 // the Thevenin impedance between terminals a and b (valves 1 and 3 closed
 // short a to b through p). For a balanced network that impedance is twice
 // the commutating impedance per phase, Rs + jωLs.

@@ -50,6 +50,27 @@ steady cycles = 2
   REQUIRE(b.vd_difference_pct == Approx(-drop_pct).margin(0.15));
 }
 
+TEST_CASE("ClosedSwitchesInTheSupplyPathCountAsClosedForTheClosedForms", "[report][analytic]") {
+  // HV fuse-switches in series (1 mohm each, closed): the same Ls as
+  // without them, to within their resistance (a regression: the phasor
+  // solves once opened every switch along with the valves).
+  const CaseAnalysis a = testing::AnalyseText(R"(
+supply Grid (A0, B0, C0) Vll = 11 kV f = 50 Hz Ssc = 150 MVA xr = 10
+switch Fa (A0, A) state = closed
+switch Fb (B0, B) state = closed
+switch Fc (C0, C) state = closed
+transformer T hv = (A, B, C) lv = (a, b, c) group = Dyn11 S = 1 MVA V1 = 11 kV V2 = 400 V z = 6 % xr = 10 im = 0.2 %
+bridge B ac = (a, b, c) dc = (p, n)
+current_source Idc (n, p) dc = 1000 A
+simulate stop = 300 ms
+steady cycles = 2
+)");
+  const double k = 10 / std::sqrt(101.0);
+  const double x = (0.06 * 400.0 * 400.0 / 1e6 + 400.0 * 400.0 / 150e6) * k;
+  REQUIRE(testing::BridgeNamed(a, "B").ls_H == Approx(x / kW).epsilon(0.002));
+  REQUIRE(testing::BridgeNamed(a, "B").vll_V == Approx(400.0).epsilon(0.002));
+}
+
 TEST_CASE("ASixPulseBridgeUsesItsTransformerWithFactorThreeOverPi", "[report][analytic]") {
   for (const char* group : {"Dyn11", "Yy0"}) {
     SECTION(group) {
