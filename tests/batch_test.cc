@@ -217,26 +217,32 @@ TEST_CASE("TwoHundredCasesGiveTheSameSummaryWithOneOrTwoJobsAndAsMergedShards", 
   REQUIRE(Read(dir / "merged" / "summary.json") == Read(dir / "one" / "summary.json"));
 }
 
-TEST_CASE("AKilledBatchResumesWithoutRerunningFinishedCases", "[batch][resume]") {
-  const fs::path dir = Fresh("lccsim-resume");
-  const fs::path netlist = WriteBig(dir);
-  REQUIRE(Run(netlist, dir / "full", 2) == kExitOk);
-  const fs::path out = dir / "killed";
+// Starts `lccsim run` on the netlist as a child process and returns once at
+// least `cases` cases are finished (waiting up to a minute: a slow or
+// sanitised build runs a case in tens of milliseconds).
+pid_t StartAndWaitForCases(const fs::path& netlist, const fs::path& out, const char* jobs, int cases) {
   const pid_t pid = fork();
   if (pid == 0) {
-    execl(LCC_BINARY, LCC_BINARY, "run", netlist.c_str(), "--out", out.c_str(), "--jobs", "1", "--formats",
+    execl(LCC_BINARY, LCC_BINARY, "run", netlist.c_str(), "--out", out.c_str(), "--jobs", jobs, "--formats",
           "csv,json", static_cast<char*>(nullptr));
     _exit(127);
   }
-  // Kill it once some cases are done (waiting up to a minute: a slow or
-  // sanitised build runs a case in tens of milliseconds).
   for (int k = 0; k < 6000; ++k) {
     std::this_thread::sleep_for(std::chrono::milliseconds(10));
     int done = 0;
     std::error_code ec;
     for (const auto& entry : fs::directory_iterator(out, ec)) done += fs::exists(entry.path() / "analysis.json");
-    if (done >= 10) break;
+    if (done >= cases) break;
   }
+  return pid;
+}
+
+TEST_CASE("AKilledBatchResumesWithoutRerunningFinishedCases", "[batch][resume]") {
+  const fs::path dir = Fresh("lccsim-resume");
+  const fs::path netlist = WriteBig(dir);
+  REQUIRE(Run(netlist, dir / "full", 2) == kExitOk);
+  const fs::path out = dir / "killed";
+  const pid_t pid = StartAndWaitForCases(netlist, out, "1", 10);
   kill(pid, SIGKILL);
   int status = 0;
   waitpid(pid, &status, 0);
@@ -261,19 +267,7 @@ TEST_CASE("CtrlCStopsCleanlyKeepingFinishedCases", "[batch][resume]") {
   const fs::path dir = Fresh("lccsim-interrupt");
   const fs::path netlist = WriteBig(dir);
   const fs::path out = dir / "out";
-  const pid_t pid = fork();
-  if (pid == 0) {
-    execl(LCC_BINARY, LCC_BINARY, "run", netlist.c_str(), "--out", out.c_str(), "--jobs", "2",
-          static_cast<char*>(nullptr));
-    _exit(127);
-  }
-  for (int k = 0; k < 6000; ++k) {
-    std::this_thread::sleep_for(std::chrono::milliseconds(10));
-    int done = 0;
-    std::error_code ec;
-    for (const auto& entry : fs::directory_iterator(out, ec)) done += fs::exists(entry.path() / "analysis.json");
-    if (done >= 10) break;
-  }
+  const pid_t pid = StartAndWaitForCases(netlist, out, "2", 10);
   kill(pid, SIGINT);
   int status = 0;
   waitpid(pid, &status, 0);
