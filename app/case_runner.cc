@@ -9,6 +9,7 @@
 #include <sstream>
 
 #include "engine/topology.h"
+#include "models/valve.h"
 #include "parser/elaborate.h"
 #include "results/analysis_json.h"
 #include "results/atomic_file.h"
@@ -159,9 +160,26 @@ CaseRunResult RunCaseUnwritten(const CaseRunOptions& o, const CaseInstance& c) {
     const double sample = study.simulate->sample > 0 ? study.simulate->sample
                           : fundamental > 0          ? 1.0 / fundamental / 1024.0
                                                      : study.simulate->stop / 10000.0;
-    CaseRecorder recorder(study.probes, channels, AnalysisKeepSeconds(study, fundamental), sample,
-                          study.window ? study.window->from : 0.0, study.window ? study.window->to : 0.0);
+    // The window is known in advance unless the run waits for steady
+    // state: a chosen window, or the last cycles before stop.
+    const double keep = AnalysisKeepSeconds(study, fundamental);
+    double from = 0.0, to = 0.0;
+    if (study.window) {
+      from = study.window->from;
+      to = study.window->to;
+    } else if (!study.steady && fundamental > 0) {
+      from = std::max(0.0, study.simulate->stop - keep);
+      to = study.simulate->stop;
+    }
+    CaseRecorder recorder(study.probes, channels, keep, sample, from, to);
     if (!c.timed.empty()) recorder.SetFaultTime(c.timed.front().t);
+    bool ratings = false;
+    for (const auto& g : circuit.valve_groups())
+      for (int d : g.devices) {
+        const ValveParams& p = static_cast<const Valve&>(*circuit.devices()[d]).params();
+        ratings |= p.irms_max > 0 || p.ipk_max > 0 || p.i2t_max > 0 || p.vrrm > 0;
+      }
+    recorder.SetTrackWholeRun(ratings);
     RunResult run = Simulate(circuit, study, o.engine, recorder, actions);
     if (run.summary.status == RunSummary::Status::kFailed && o.engine.limits.cancel &&
         o.engine.limits.cancel->load()) {

@@ -21,6 +21,7 @@ void CaseRecorder::OnSample(double t, const double* y, const double* yp) {
   if (width_ == 0) return;
   const bool faulted = fault_time_ >= 0 && t >= fault_time_ - half_;
   const bool in_window = !(to_ > from_) || (t >= from_ - half_ && t <= to_ + half_);
+  if (!in_window && !faulted && !track_whole_run_) return;
   const std::size_t slot = count_ % capacity_;
   for (int c = 0; c < width_; ++c) {
     const double x = channels_.channels[c].form.Evaluate(y, yp);

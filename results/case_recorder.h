@@ -31,6 +31,10 @@ class CaseRecorder final : public SampleSink {
   // Figures over the whole run and from a fault instant on, per channel,
   // accumulated sample by sample (the window alone would miss them).
   void SetFaultTime(double t) { fault_time_ = t; }
+  // Whole-run extremes are tracked only when asked (valve ratings to check)
+  // or after a fault instant: otherwise samples outside the window cost
+  // nothing but the probes.
+  void SetTrackWholeRun(bool track) { track_whole_run_ = track; }
   double fault_time() const { return fault_time_; }
   struct Extremes {
     double min = 0.0, max = 0.0;           // whole run
@@ -65,6 +69,7 @@ class CaseRecorder final : public SampleSink {
   std::vector<std::vector<double>> columns_;  // ring of each channel
   double from_ = 0.0, to_ = 0.0, half_ = 0.0, sample_ = 0.0;
   double fault_time_ = -1.0;
+  bool track_whole_run_ = false;
   std::vector<Extremes> extremes_;
 };
 
