@@ -8,9 +8,7 @@
 #include <map>
 #include <sstream>
 
-#include "engine/topology.h"
 #include "models/valve.h"
-#include "parser/elaborate.h"
 #include "results/analysis_json.h"
 #include "results/atomic_file.h"
 #include "results/case_recorder.h"
@@ -22,23 +20,27 @@
 #include "results/writers.h"
 
 namespace lcc {
+
+std::unique_ptr<Design> LoadDesign(const std::string& netlist, const Overrides* overrides, Diagnostics& diags,
+                                   TopologyReport* topology) {
+  auto design = ElaborateFile(netlist, diags, overrides);
+  if (design) *topology = CheckTopology(design->circuit, diags);
+  if (diags.has_errors()) return nullptr;
+  return design;
+}
+
 namespace {
 
 namespace fs = std::filesystem;
 
-// Elaborates and checks the netlist with `overrides`; nullptr and the
-// rendered messages on error.
+// The case's design with `overrides`; nullptr and the rendered messages on error.
 std::unique_ptr<Design> Load(const std::string& netlist, const Overrides& overrides, std::string* messages,
                              TopologyReport* topology) {
   Diagnostics diags;
-  auto design = ElaborateFile(netlist, diags, &overrides);
   TopologyReport report;
-  if (design) report = CheckTopology(design->circuit, diags);
+  auto design = LoadDesign(netlist, &overrides, diags, &report);
   if (topology) *topology = report;
-  if (diags.has_errors()) {
-    *messages = diags.Format();
-    return nullptr;
-  }
+  if (!design) *messages = diags.Format();
   return design;
 }
 
@@ -155,23 +157,8 @@ CaseRunResult RunCaseUnwritten(const CaseRunOptions& o, const CaseInstance& c) {
 
     const Study& study = design->study;
     const AnalysisChannels channels = BuildAnalysisChannels(circuit);
-    const double fundamental =
-        study.steady && study.steady->frequency > 0 ? study.steady->frequency : study.fundamental;
-    const double sample = study.simulate->sample > 0 ? study.simulate->sample
-                          : fundamental > 0          ? 1.0 / fundamental / 1024.0
-                                                     : study.simulate->stop / 10000.0;
-    // The window is known in advance unless the run waits for steady
-    // state: a chosen window, or the last cycles before stop.
-    const double keep = AnalysisKeepSeconds(study, fundamental);
-    double from = 0.0, to = 0.0;
-    if (study.window) {
-      from = study.window->from;
-      to = study.window->to;
-    } else if (!study.steady && fundamental > 0) {
-      from = std::max(0.0, study.simulate->stop - keep);
-      to = study.simulate->stop;
-    }
-    CaseRecorder recorder(study.probes, channels, keep, sample, from, to);
+    const auto recorder_ptr = RecorderFor(study, channels);
+    CaseRecorder& recorder = *recorder_ptr;
     if (!c.timed.empty()) recorder.SetFaultTime(c.timed.front().t);
     bool ratings = false;
     for (const auto& g : circuit.valve_groups())

@@ -10,10 +10,17 @@
 #include <string>
 
 #include "engine/simulator.h"
+#include "engine/topology.h"
 #include "parser/batch.h"
+#include "parser/elaborate.h"
 #include "results/analysis.h"
 
 namespace lcc {
+
+// Parses, elaborates (with `overrides`, if any) and checks the topology;
+// nullptr when `diags` holds errors.
+std::unique_ptr<Design> LoadDesign(const std::string& netlist, const Overrides* overrides, Diagnostics& diags,
+                                   TopologyReport* topology);
 
 struct CaseRunOptions {
   std::string netlist;

@@ -13,19 +13,9 @@
 #include <thread>
 
 #include "app/case_runner.h"
-
-#include "engine/simulator.h"
-#include "engine/topology.h"
-#include "parser/elaborate.h"
-#include "results/analysis.h"
 #include "results/analysis_json.h"
 #include "results/atomic_file.h"
-#include "results/case_recorder.h"
-#include "results/channels.h"
-#include "results/comtrade.h"
-#include "results/events.h"
 #include "results/report.h"
-#include "results/svg_plot.h"
 #include "results/writers.h"
 
 namespace lcc {
@@ -33,13 +23,11 @@ namespace {
 
 namespace fs = std::filesystem;
 
-// Parses, elaborates and checks; prints diagnostics; nullptr on error.
+// Loads the netlist as written; prints its diagnostics; nullptr on error.
 std::unique_ptr<Design> Load(const std::string& netlist, std::ostream& err, TopologyReport* topology) {
   Diagnostics diags;
-  auto design = ElaborateFile(netlist, diags);
-  if (design) *topology = CheckTopology(design->circuit, diags);
+  auto design = LoadDesign(netlist, nullptr, diags, topology);
   err << diags.Format();
-  if (diags.has_errors()) return nullptr;
   return design;
 }
 

@@ -50,9 +50,8 @@ int Bench(const char* title, std::unique_ptr<lcc::Design> design, lcc::Diagnosti
   double sim_best = 1e300, analysis_best = 1e300;
   lcc::RunSummary summary;
   for (int k = 0; k < 5; ++k) {
-    const double f = study.fundamental;
-    const double sample = study.simulate->sample > 0 ? study.simulate->sample : 1.0 / f / 1024;
-    lcc::CaseRecorder recorder(study.probes, channels, lcc::AnalysisKeepSeconds(study, f), sample);
+    const auto recorder_ptr = lcc::RecorderFor(study, channels);
+    lcc::CaseRecorder& recorder = *recorder_ptr;
     auto run = lcc::Simulate(design->circuit, study, {}, recorder);
     if (run.summary.status != lcc::RunSummary::Status::kCompleted) {
       fmt::print(stderr, "run failed: {}\n", run.summary.message);

@@ -102,16 +102,10 @@ class Run {
     auto& s = result_.summary;
     s.stop_given = sim.stop;
     s.reltol_used = sim.reltol;
-    const double f = study_->steady && study_->steady->frequency > 0 ? study_->steady->frequency
-                                                                   : study_->fundamental;
+    const double f = RunFrequency(*study_);
     period_ = f > 0 ? 1.0 / f : 0.0;
     s.period = period_;
-    s.sample_used = sim.sample > 0 ? sim.sample : period_ > 0 ? period_ / 1024.0 : sim.stop / 10000.0;
-    // With a fundamental, the interval is made to divide the period exactly
-    // (20 us at 60 Hz becomes T/833), so that a window of whole cycles holds
-    // whole sample sets and the harmonic analysis has no leakage.
-    if (period_ > 0 && s.sample_used < period_)
-      s.sample_used = period_ / std::max(1.0, std::round(period_ / s.sample_used));
+    s.sample_used = OutputInterval(*study_);
     s.max_step_used = sim.max_step > 0                ? sim.max_step
                       : period_ > 0                   ? period_ * options_.default_max_step_degrees / 360.0
                                                       : sim.stop / 1000.0;
@@ -1210,6 +1204,19 @@ std::string RunSummary::FullReport(bool with_wall) const {
   out += fmt::format("  output samples            {}\n", samples);
   if (with_wall) out += fmt::format("  wall time                 {:.4f} s\n", wall_seconds);
   return out;
+}
+
+double RunFrequency(const Study& study) {
+  return study.steady && study.steady->frequency > 0 ? study.steady->frequency : study.fundamental;
+}
+
+double OutputInterval(const Study& study) {
+  const double f = RunFrequency(study);
+  const double period = f > 0 ? 1.0 / f : 0.0;
+  const SimulateSpec& sim = *study.simulate;
+  double sample = sim.sample > 0 ? sim.sample : period > 0 ? period / 1024.0 : sim.stop / 10000.0;
+  if (period > 0 && sample < period) sample = period / std::max(1.0, std::round(period / sample));
+  return sample;
 }
 
 RunResult Simulate(const Circuit& circuit, const Study& study, const EngineOptions& options,

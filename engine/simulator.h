@@ -181,6 +181,15 @@ struct RunResult {
 // Simulates `circuit` as `study` says, streaming samples to `sink`.
 // Requires study.simulate. Never throws for a numerical failure: the
 // summary says what happened.
+// The fundamental frequency a run of `study` counts cycles in: steady's f,
+// else the first periodic source's (0: nothing is periodic).
+double RunFrequency(const Study& study);
+// The output interval of a run: `sample`, or period/1024 (stop/10000 when
+// nothing is periodic); with a fundamental it is rounded to divide the
+// period exactly (20 us at 60 Hz becomes T/833), so that a window of whole
+// cycles holds whole sample sets and the harmonic analysis has no leakage.
+double OutputInterval(const Study& study);
+
 // `actions` (engine/actions.h) are applied at their instants.
 RunResult Simulate(const Circuit& circuit, const Study& study, const EngineOptions& options,
                    SampleSink& sink, const std::vector<EngineAction>& actions = {});

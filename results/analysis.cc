@@ -373,13 +373,6 @@ Stats StatsOf(const WindowStats& w, std::string unit) {
           w.max,           w.ripple_pp(), w.ripple_rms(), w.ripple_factor(), w.form_factor()};
 }
 
-double AnalysisKeepSeconds(const Study& study, double fundamental) {
-  if (fundamental <= 0) return study.simulate ? study.simulate->stop : 0.0;
-  const double period = 1.0 / (study.steady && study.steady->frequency > 0 ? study.steady->frequency : fundamental);
-  const int cycles = study.steady ? study.steady->cycles : 1;
-  return (cycles + 0.1) * period;
-}
-
 CaseAnalysis Analyse(const AnalysisInput& in) {
   const auto start = std::chrono::steady_clock::now();
   CaseAnalysis a;

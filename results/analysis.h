@@ -166,7 +166,4 @@ struct AnalysisInput {
 
 CaseAnalysis Analyse(const AnalysisInput& in);
 
-// The ring-buffer length a CaseRecorder needs for this study (s).
-double AnalysisKeepSeconds(const Study& study, double fundamental);
-
 }  // namespace lcc

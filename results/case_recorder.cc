@@ -67,4 +67,22 @@ CaseRecorder::Window CaseRecorder::Extract(double begin, double end) {
   return w;
 }
 
+std::unique_ptr<CaseRecorder> RecorderFor(const Study& study, const AnalysisChannels& channels) {
+  const double f = RunFrequency(study);
+  const double sample = OutputInterval(study);
+  const double stop = study.simulate ? study.simulate->stop : 0.0;
+  // The window's length plus a tenth of a cycle, so rounding never drops a
+  // sample of it; the whole run when nothing is periodic.
+  const double keep = f > 0 ? ((study.steady ? study.steady->cycles : 1) + 0.1) / f : stop;
+  double from = 0.0, to = 0.0;
+  if (study.window) {
+    from = study.window->from;
+    to = study.window->to;
+  } else if (!study.steady && f > 0) {
+    from = std::max(0.0, stop - keep);
+    to = stop;
+  }
+  return std::make_unique<CaseRecorder>(study.probes, channels, keep, sample, from, to);
+}
+
 }  // namespace lcc

@@ -8,6 +8,7 @@
 // by the window, not by the run's length.
 #pragma once
 
+#include <memory>
 #include <span>
 #include <vector>
 
@@ -72,5 +73,10 @@ class CaseRecorder final : public SampleSink {
   bool track_whole_run_ = false;
   std::vector<Extremes> extremes_;
 };
+
+// A recorder sized for `study`'s analysis window: the chosen `window`; the
+// last cycles before stop when the run does not wait for steady state; else
+// a ring holding the last `cycles` cycles of a steady run.
+std::unique_ptr<CaseRecorder> RecorderFor(const Study& study, const AnalysisChannels& channels);
 
 }  // namespace lcc

@@ -69,14 +69,11 @@ CaseAnalysis AnalyseText(const std::string& text, const EngineOptions& options) 
   REQUIRE_FALSE(diags.has_errors());
   const Study& study = design->study;
   const AnalysisChannels channels = BuildAnalysisChannels(design->circuit);
-  const double f = study.steady && study.steady->frequency > 0 ? study.steady->frequency : study.fundamental;
-  const double sample = study.simulate->sample > 0 ? study.simulate->sample : 1.0 / f / 1024.0;
-  CaseRecorder recorder(study.probes, channels, AnalysisKeepSeconds(study, f), sample,
-                        study.window ? study.window->from : 0.0, study.window ? study.window->to : 0.0);
-  RunResult run = lcc::Simulate(design->circuit, study, options, recorder);
+  const auto recorder = RecorderFor(study, channels);
+  RunResult run = lcc::Simulate(design->circuit, study, options, *recorder);
   INFO(run.summary.FullReport());
   REQUIRE(run.summary.status == RunSummary::Status::kCompleted);
-  return Analyse({"test", "test.lcc", 0, "base", {}, &design->circuit, &study, &recorder, &run});
+  return Analyse({"test", "test.lcc", 0, "base", {}, &design->circuit, &study, recorder.get(), &run});
 }
 
 const BridgeFigures& BridgeNamed(const CaseAnalysis& a, const std::string& name) {
