@@ -413,18 +413,20 @@ class Run {
     return true;
   }
 
-  // The largest breach of a valve's rule at (t, y), in units of its
-  // settling tolerance ε (on needs i ≥ Ih − ε, armed-off needs v ≤ Vf + ε);
-  // zero or less when every valve keeps its rule.
+  // How far valve k is past its rule at (t, y), in units of its settling
+  // tolerance ε: on needs i ≥ Ih − ε, armed-off needs v ≤ Vf + ε; 0 or less
+  // when it keeps the rule, and for valves no rule applies to (failed, or
+  // blocking without a gate).
+  double Breach(std::size_t k, double t, const double* y) const {
+    const Valve& v = *valves_[k].valve;
+    const bool on = states_[v.switch_slot()];
+    if (forced_[k] || (!on && !Armed(static_cast<int>(k), t))) return 0.0;
+    return on ? (v.params().i_h - v.Current(y)) / eps_i_ - 1.0 : (v.Voltage(y) - v.params().v_f) / eps_v_ - 1.0;
+  }
+
   double WorstViolation(double t, const double* y) const {
     double worst = 0.0;
-    for (std::size_t k = 0; k < valves_.size(); ++k) {
-      const Valve& v = *valves_[k].valve;
-      const bool on = states_[v.switch_slot()];
-      if (forced_[k] || (!on && !Armed(static_cast<int>(k), t))) continue;
-      const double breach = on ? (v.params().i_h - v.Current(y)) / eps_i_ : (v.Voltage(y) - v.params().v_f) / eps_v_;
-      worst = std::max(worst, breach - 1.0);
-    }
+    for (std::size_t k = 0; k < valves_.size(); ++k) worst = std::max(worst, Breach(k, t, y));
     return worst;
   }
 
@@ -452,12 +454,11 @@ class Run {
       int worst = -1;
       double worst_violation = 0.0;
       for (std::size_t k = 0; k < valves_.size(); ++k) {
-        const Valve& v = *valves_[k].valve;
-        const bool on = states_[v.switch_slot()];
-        if (forced_[k]) continue;  // failed open or short: no rule applies
-        if (!on && (just_off[k] || !Armed(static_cast<int>(k), t))) continue;
-        const double violation = on ? (v.params().i_h - eps_i_ - v.Current(y)) / i_ref_
-                                    : (v.Voltage(y) - v.params().v_f - eps_v_) / v_ref_;
+        const bool on = states_[valves_[k].valve->switch_slot()];
+        if (!on && just_off[k]) continue;
+        // Compared across valves per unit of the circuit's scale, so that
+        // currents and voltages rank together.
+        const double violation = Breach(k, t, y) * (on ? eps_i_ / i_ref_ : eps_v_ / v_ref_);
         if (violation > worst_violation) {
           worst_violation = violation;
           worst = static_cast<int>(k);
