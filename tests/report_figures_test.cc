@@ -21,26 +21,35 @@ namespace {
 
 const double kW = 2 * std::numbers::pi * 50.0;
 
-TEST_CASE("TheCommutatingInductanceIsTheSupplyPlusTheLeakageReferredToTheValveSide", "[report][analytic]") {
-  const CaseAnalysis a = testing::AnalyseText(R"(
-supply Grid (A, B, C) Vll = 11 kV f = 50 Hz Ssc = 150 MVA xr = 10
+// 11 kV, 150 MVA, x/r 10 supply; 1 MVA Dyn11 transformer, z 6 %, x/r 10, to
+// 400 V; a bridge carrying 1 kA. `feed`, if any, sits between the
+// supply's terminals (A0, B0, C0) and the transformer's (A, B, C).
+std::string TransformerFedBridge(const std::string& feed = "") {
+  return std::string("supply Grid ") + (feed.empty() ? "(A, B, C)" : "(A0, B0, C0)") +
+         " Vll = 11 kV f = 50 Hz Ssc = 150 MVA xr = 10\n" + feed + R"(
 transformer T hv = (A, B, C) lv = (a, b, c) group = Dyn11 S = 1 MVA V1 = 11 kV V2 = 400 V z = 6 % xr = 10 im = 0.2 %
 bridge B ac = (a, b, c) dc = (p, n)
 current_source Idc (n, p) dc = 1000 A
 simulate stop = 300 ms
 steady cycles = 2
-)");
-  const double k = 10 / std::sqrt(101.0);
-  const double x_t = 0.06 * 400.0 * 400.0 / 1e6 * k;
-  const double x_s = 400.0 * 400.0 / 150e6 * k;
+)";
+}
+
+// The commutating reactance by hand: the transformer's z·V2²/S and the
+// supply's V2²/Ssc (referred to 400 V), each with x = z·xr/√(1 + xr²).
+double HandReactance() { return (0.06 * 400.0 * 400.0 / 1e6 + 400.0 * 400.0 / 150e6) * 10 / std::sqrt(101.0); }
+
+TEST_CASE("TheCommutatingInductanceIsTheSupplyPlusTheLeakageReferredToTheValveSide", "[report][analytic]") {
+  const CaseAnalysis a = testing::AnalyseText(TransformerFedBridge());
+  const double x = HandReactance();
   const BridgeFigures& b = testing::BridgeNamed(a, "B");
-  INFO("Ls " << b.ls_H << " H, expected " << (x_t + x_s) / kW);
+  INFO("Ls " << b.ls_H << " H, expected " << x / kW);
   // The magnetising branch (im 0.2 %) shunts the short-circuit path by
   // about z·im = 1e-4 of it.
-  REQUIRE(b.ls_H == Approx((x_t + x_s) / kW).epsilon(0.002));
+  REQUIRE(b.ls_H == Approx(x / kW).epsilon(0.002));
   REQUIRE(b.vll_V == Approx(400.0).epsilon(0.002));
   // The resistances, x/r = 10: R = X/10 for both.
-  REQUIRE(b.rs_ohm == Approx((x_t + x_s) / 10).epsilon(0.01));
+  REQUIRE(b.rs_ohm == Approx(x / 10).epsilon(0.01));
   // The closed form leaves resistance out; outside the commutations two
   // phases and two valves (Ron 1 mohm) conduct, so the simulated Vd is
   // lower by about 2·(Rs + Ron)·Id (an estimate: during the overlap the
@@ -54,19 +63,9 @@ TEST_CASE("ClosedSwitchesInTheSupplyPathCountAsClosedForTheClosedForms", "[repor
   // HV fuse-switches in series (1 mohm each, closed): the same Ls as
   // without them, to within their resistance (a regression: the phasor
   // solves once opened every switch along with the valves).
-  const CaseAnalysis a = testing::AnalyseText(R"(
-supply Grid (A0, B0, C0) Vll = 11 kV f = 50 Hz Ssc = 150 MVA xr = 10
-switch Fa (A0, A) state = closed
-switch Fb (B0, B) state = closed
-switch Fc (C0, C) state = closed
-transformer T hv = (A, B, C) lv = (a, b, c) group = Dyn11 S = 1 MVA V1 = 11 kV V2 = 400 V z = 6 % xr = 10 im = 0.2 %
-bridge B ac = (a, b, c) dc = (p, n)
-current_source Idc (n, p) dc = 1000 A
-simulate stop = 300 ms
-steady cycles = 2
-)");
-  const double k = 10 / std::sqrt(101.0);
-  const double x = (0.06 * 400.0 * 400.0 / 1e6 + 400.0 * 400.0 / 150e6) * k;
+  const CaseAnalysis a = testing::AnalyseText(TransformerFedBridge(
+      "switch Fa (A0, A) state = closed\nswitch Fb (B0, B) state = closed\nswitch Fc (C0, C) state = closed"));
+  const double x = HandReactance();
   REQUIRE(testing::BridgeNamed(a, "B").ls_H == Approx(x / kW).epsilon(0.002));
   REQUIRE(testing::BridgeNamed(a, "B").vll_V == Approx(400.0).epsilon(0.002));
 }
