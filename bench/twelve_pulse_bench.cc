@@ -51,5 +51,6 @@ probe Iv1 = B1[1].i
   fmt::print("{:>10} {:>9} {:>8} {:>10}\n", "wall [ms]", "steps", "events", "real-time");
   fmt::print("{:>10.2f} {:>9} {:>8} {:>9.1f}x\n", best.wall_seconds * 1e3, best.steps, best.events,
              seconds / best.wall_seconds);
+  if (std::getenv("LCC_BENCH_VERBOSE")) fmt::print("{}\n", best.FullReport());
   return 0;
 }

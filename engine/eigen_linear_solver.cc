@@ -30,6 +30,7 @@ int Setup(SUNLinearSolver s, SUNMatrix a) {
   const bool ok = c->lu->Factorize(SM_DATA_S(a));
   ++c->stats->setups;
   c->stats->analyses = c->lu->analyses();
+  c->stats->reused_plans = c->lu->refactorizations();
   if (!ok) {
     ++c->stats->singular;
     return SUNLS_LUFACT_FAIL;  // positive: IDA may recover with a smaller step
@@ -60,7 +61,7 @@ SUNLinearSolver MakeEigenLu(SUNContext ctx, const Matrix& pattern, const LuOptio
   if (!s) return nullptr;
   auto* content = new Content;
   content->lu = std::make_unique<LuSolver>(pattern, options);
-  stats->dense = content->lu->dense();
+  stats->supernodal = content->lu->supernodal();
   content->stats = stats;
   s->content = content;
   s->ops->gettype = GetType;

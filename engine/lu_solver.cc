@@ -1,126 +1,272 @@
 #include "engine/lu_solver.h"
 
+#include <Eigen/OrderingMethods>
+#include <algorithm>
 #include <cmath>
+#include <cstring>
 
 namespace lcc {
 
 LuSolver::LuSolver(const SparseMatrix& pattern, const LuOptions& options)
-    : dense_(pattern.rows() <= options.dense_limit), sparse_(pattern) {
+    : n_(static_cast<int>(pattern.rows())),
+      supernodal_(pattern.rows() > options.supernodal_above),
+      sparse_(pattern),
+      options_(options) {
   sparse_.makeCompressed();
-  if (dense_) {
-    dense_matrix_.setZero(pattern.rows(), pattern.cols());
-    pivot_.assign(pattern.rows(), 0);
-  }
-  work_.resize(pattern.rows());
+  work_.resize(n_);
+  if (supernodal_) return;
+  // The column order is the symbolic analysis of this path: done here, once.
+  // AMD on the pattern of A + Aᵀ suits MNA matrices, whose patterns are
+  // nearly symmetric. Eigen's permutation maps old index j to new position
+  // indices()(j); the elimination needs the inverse, position → column.
+  Eigen::PermutationMatrix<Eigen::Dynamic, Eigen::Dynamic, int> permutation;
+  Eigen::AMDOrdering<int>()(sparse_, permutation);
+  column_order_.assign(n_, 0);
+  for (int j = 0; j < n_; ++j) column_order_[permutation.indices()(j)] = j;
+  ++analyses_;
+  plans_.reserve(std::max(1, options_.max_plans));
+  x_.assign(n_, 0.0);
+  stack_.assign(n_, 0);
+  dfs_.assign(n_, 0);
+  next_edge_.assign(n_, 0);
+  mark_.assign(n_, 0);
 }
 
 bool LuSolver::Factorize(const double* values) {
-  const int n = static_cast<int>(sparse_.rows());
-  if (dense_) {
-    // Column-major storage, A[i + j·n], used through a raw pointer: at these
-    // sizes Eigen's element access does not fold away entirely.
-    double* A = dense_matrix_.data();
-    auto at = [A, n](int i, int j) -> double& { return A[i + static_cast<std::size_t>(j) * n]; };
-    // Clear what the last factorisation left (its L and U non-zeros and the
-    // diagonal), rather than all n² entries.
-    if (lower_start_.empty()) {
-      dense_matrix_.setZero();
-    } else {
-      for (int j = 0; j < n; ++j) {
-        at(j, j) = 0.0;
-        for (int p = lower_start_[j]; p < lower_start_[j + 1]; ++p) at(lower_rows_[p], j) = 0.0;
-        for (int p = upper_start_[j]; p < upper_start_[j + 1]; ++p) at(upper_rows_[p], j) = 0.0;
+  if (supernodal_) {
+    std::copy(values, values + sparse_.nonZeros(), sparse_.valuePtr());
+    if (!analyzed_) {
+      sparse_lu_.analyzePattern(sparse_);
+      analyzed_ = true;
+      ++analyses_;
+    }
+    sparse_lu_.factorize(sparse_);
+    return sparse_lu_.info() == Eigen::Success;
+  }
+  const std::uint64_t signature = Signature(values);
+  int slot = -1;
+  for (int i = 0; i < static_cast<int>(plans_.size()); ++i)
+    if (plans_[i].signature == signature) slot = i;
+  if (slot >= 0 && Refactorize(values, plans_[slot])) {
+    ++refactored_;
+  } else {
+    if (slot < 0) {
+      if (static_cast<int>(plans_.size()) < std::max(1, options_.max_plans)) {
+        slot = static_cast<int>(plans_.size());
+        plans_.emplace_back();
+      } else {
+        slot = static_cast<int>(std::min_element(plans_.begin(), plans_.end(),
+                                                 [](const Plan& a, const Plan& b) { return a.last_used < b.last_used; }) -
+                                plans_.begin());
       }
     }
-    const int* outer = sparse_.outerIndexPtr();
-    const int* inner = sparse_.innerIndexPtr();
-    for (int col = 0; col < n; ++col)
-      for (int p = outer[col]; p < outer[col + 1]; ++p) at(inner[p], col) = values[p];
-    // Right-looking elimination with partial pivoting, touching only the
-    // non-zeros of each pivot column and pivot row: MNA matrices are mostly
-    // zeros and stay so (little fill-in), which makes this far cheaper than
-    // the n³/3 of a plain dense LU once n reaches a few dozen.
-    for (int k = 0; k < n; ++k) {
-      double* colk = &at(0, k);
-      int p = k;
-      for (int i = k + 1; i < n; ++i)
-        if (std::abs(colk[i]) > std::abs(colk[p])) p = i;
-      pivot_[k] = p;
-      if (p != k)
-        for (int j = 0; j < n; ++j) std::swap(at(k, j), at(p, j));
-      // Valve resistances span 15 decades, so a tiny pivot relative to the
-      // largest is normal; only an exact zero (a structural singularity the
-      // topology checks missed) or a non-finite value is a failure.
-      const double pivot = colk[k];
-      if (!std::isfinite(pivot) || std::abs(pivot) <= 1e-300) {
-        lower_start_.clear();  // the next call must clear the whole matrix
-        return false;
-      }
-      const double inv = 1.0 / pivot;
-      rows_.clear();
-      for (int i = k + 1; i < n; ++i)
-        if (colk[i] != 0.0) {
-          colk[i] *= inv;
-          rows_.push_back(i);
+    ++full_;
+    if (!FactorizeFully(values, plans_[slot])) {
+      plans_[slot].signature = 0;  // nothing worth keeping
+      plans_[slot].last_used = 0;
+      active_ = -1;
+      return false;
+    }
+  }
+  plans_[slot].signature = signature;
+  plans_[slot].last_used = ++clock_;
+  active_ = slot;
+  return true;
+}
+
+std::uint64_t LuSolver::Signature(const double* values) const {
+  // FNV-1a over the sign-less binary exponent of each entry: matrices that
+  // differ only within a factor of two entry by entry share it.
+  std::uint64_t h = 1469598103934665603ull;
+  for (int p = 0; p < sparse_.nonZeros(); ++p) {
+    std::uint64_t bits;
+    std::memcpy(&bits, &values[p], sizeof bits);
+    h = (h ^ ((bits >> 52) & 0x7ff)) * 1099511628211ull;
+  }
+  return h | 1;  // never 0, which marks an empty plan
+}
+
+int LuSolver::Reach(int col, const Plan& plan) {
+  // Depth-first search without recursion (Davis, §3.2): a row that is
+  // already pivoted leads on to the rows of its column of L; a row not yet
+  // pivoted is a leaf. Rows finish in reverse topological order, so they
+  // are pushed onto stack_ from the top down.
+  if (++stamp_ == 0) {  // after 2³² columns the marks wrap: clear them once
+    std::fill(mark_.begin(), mark_.end(), 0);
+    stamp_ = 1;
+  }
+  const int* outer = sparse_.outerIndexPtr();
+  const int* inner = sparse_.innerIndexPtr();
+  const int* step_of = plan.pivot_step.data();
+  const int* lower_start = plan.lower_start.data();
+  const int* lower_rows = plan.lower_rows.data();
+  int top = n_;
+  for (int p = outer[col]; p < outer[col + 1]; ++p) {
+    const int start = inner[p];
+    if (mark_[start] == stamp_) continue;
+    int depth = 0;
+    dfs_[0] = start;
+    mark_[start] = stamp_;
+    next_edge_[start] = step_of[start] >= 0 ? lower_start[step_of[start]] : 0;
+    while (depth >= 0) {
+      const int row = dfs_[depth];
+      const int step = step_of[row];
+      bool descended = false;
+      if (step >= 0) {
+        const int end = lower_start[step + 1];
+        for (int q = next_edge_[row]; q < end; ++q) {
+          const int child = lower_rows[q];
+          if (mark_[child] == stamp_) continue;
+          next_edge_[row] = q + 1;  // resume here when the child is done
+          mark_[child] = stamp_;
+          next_edge_[child] = step_of[child] >= 0 ? lower_start[step_of[child]] : 0;
+          dfs_[++depth] = child;
+          descended = true;
+          break;
         }
-      if (rows_.empty()) continue;
-      for (int j = k + 1; j < n; ++j) {
-        double* colj = &at(0, j);
-        const double ukj = colj[k];
-        if (ukj == 0.0) continue;
-        for (int i : rows_) colj[i] -= colk[i] * ukj;
+      }
+      if (!descended) {
+        stack_[--top] = row;
+        --depth;
       }
     }
-    // Non-zeros of L (below the diagonal) and U (above) by column, for Solve().
-    lower_start_.assign(n + 1, 0);
-    upper_start_.assign(n + 1, 0);
-    lower_rows_.clear();
-    upper_rows_.clear();
-    for (int j = 0; j < n; ++j) {
-      const double* colj = &at(0, j);
-      for (int i = 0; i < j; ++i)
-        if (colj[i] != 0.0) upper_rows_.push_back(i);
-      for (int i = j + 1; i < n; ++i)
-        if (colj[i] != 0.0) lower_rows_.push_back(i);
-      lower_start_[j + 1] = static_cast<int>(lower_rows_.size());
-      upper_start_[j + 1] = static_cast<int>(upper_rows_.size());
+  }
+  return top;
+}
+
+bool LuSolver::FactorizeFully(const double* values, Plan& plan) {
+  const int* outer = sparse_.outerIndexPtr();
+  const int* inner = sparse_.innerIndexPtr();
+  plan.pivot_step.assign(n_, -1);
+  plan.lower_start.assign(n_ + 1, 0);
+  plan.upper_start.assign(n_ + 1, 0);
+  plan.diagonal.assign(n_, 0.0);
+  plan.lower_rows.clear();
+  plan.lower_values.clear();
+  plan.upper_rows.clear();
+  plan.upper_values.clear();
+  for (int k = 0; k < n_; ++k) {
+    const int col = column_order_[k];
+    plan.lower_start[k] = static_cast<int>(plan.lower_rows.size());
+    plan.upper_start[k] = static_cast<int>(plan.upper_rows.size());
+    // x = L⁻¹·A(:, col) over the reach only; x_ is zero elsewhere.
+    const int top = Reach(col, plan);
+    for (int p = outer[col]; p < outer[col + 1]; ++p) x_[inner[p]] = values[p];
+    for (int p = top; p < n_; ++p) {
+      const int row = stack_[p];
+      const int step = plan.pivot_step[row];
+      if (step < 0) continue;
+      const double xr = x_[row];
+      if (xr == 0.0) continue;
+      for (int q = plan.lower_start[step]; q < plan.lower_start[step + 1]; ++q)
+        x_[plan.lower_rows[q]] -= plan.lower_values[q] * xr;
     }
-    return true;
+    // Entries on pivoted rows belong to U (kept in the topological order,
+    // which a refactorisation follows); the largest of the others is the pivot.
+    int pivot_row = -1;
+    double largest = -1.0;
+    for (int p = top; p < n_; ++p) {
+      const int row = stack_[p];
+      if (plan.pivot_step[row] >= 0) {
+        plan.upper_rows.push_back(plan.pivot_step[row]);
+        plan.upper_values.push_back(x_[row]);
+      } else if (std::abs(x_[row]) > largest) {
+        largest = std::abs(x_[row]);
+        pivot_row = row;
+      }
+    }
+    // Valve resistances span fifteen decades, so a tiny pivot relative to
+    // others is normal; only an exact zero (a structural singularity the
+    // topology checks missed) or a non-finite value is a failure.
+    if (pivot_row < 0 || !std::isfinite(largest) || largest <= 1e-300) {
+      for (int p = top; p < n_; ++p) x_[stack_[p]] = 0.0;
+      return false;
+    }
+    const double pivot = x_[pivot_row];
+    plan.diagonal[k] = pivot;
+    plan.pivot_step[pivot_row] = k;
+    const double inverse = 1.0 / pivot;
+    for (int p = top; p < n_; ++p) {
+      const int row = stack_[p];
+      if (plan.pivot_step[row] < 0) {  // rows of L keep their row of A until every pivot is known
+        plan.lower_rows.push_back(row);
+        plan.lower_values.push_back(x_[row] * inverse);
+      }
+      x_[row] = 0.0;
+    }
   }
-  std::copy(values, values + sparse_.nonZeros(), sparse_.valuePtr());
-  if (!analyzed_) {
-    sparse_lu_.analyzePattern(sparse_);
-    analyzed_ = true;
-    ++analyses_;
+  plan.lower_start[n_] = static_cast<int>(plan.lower_rows.size());
+  plan.upper_start[n_] = static_cast<int>(plan.upper_rows.size());
+  for (int& row : plan.lower_rows) row = plan.pivot_step[row];
+  return true;
+}
+
+bool LuSolver::Refactorize(const double* values, Plan& plan) {
+  // The same left-looking elimination on a known pattern, x_ indexed by
+  // pivot step: no search, only the arithmetic and the pivot check.
+  const int* outer = sparse_.outerIndexPtr();
+  const int* inner = sparse_.innerIndexPtr();
+  const int* step_of = plan.pivot_step.data();
+  const int* lower_start = plan.lower_start.data();
+  const int* lower_rows = plan.lower_rows.data();
+  double* lower_values = plan.lower_values.data();
+  double* x = x_.data();
+  const double threshold = options_.pivot_threshold;
+  for (int k = 0; k < n_; ++k) {
+    const int col = column_order_[k];
+    for (int p = outer[col]; p < outer[col + 1]; ++p) x[step_of[inner[p]]] = values[p];
+    for (int q = plan.upper_start[k]; q < plan.upper_start[k + 1]; ++q) {
+      const int s = plan.upper_rows[q];
+      const double u = x[s];
+      x[s] = 0.0;
+      plan.upper_values[q] = u;
+      if (u == 0.0) continue;
+      for (int r = lower_start[s]; r < lower_start[s + 1]; ++r) x[lower_rows[r]] -= lower_values[r] * u;
+    }
+    const double pivot = x[k];
+    x[k] = 0.0;
+    double largest = 0.0;
+    for (int r = lower_start[k]; r < lower_start[k + 1]; ++r) largest = std::max(largest, std::abs(x[lower_rows[r]]));
+    const bool acceptable = std::isfinite(pivot) && std::abs(pivot) > 1e-300 && std::isfinite(largest) &&
+                            std::abs(pivot) >= threshold * largest;
+    const double inverse = 1.0 / pivot;
+    for (int r = lower_start[k]; r < lower_start[k + 1]; ++r) {
+      lower_values[r] = x[lower_rows[r]] * inverse;
+      x[lower_rows[r]] = 0.0;
+    }
+    if (!acceptable) return false;  // x_ is clean: this column's entries were all cleared
+    plan.diagonal[k] = pivot;
   }
-  sparse_lu_.factorize(sparse_);
-  return sparse_lu_.info() == Eigen::Success;
+  return true;
 }
 
 void LuSolver::Solve(const double* b, double* x) {
-  const int n = static_cast<int>(sparse_.rows());
-  if (dense_) {
-    // In place on x, with raw pointers: no temporaries on this hot path.
-    if (x != b) std::copy(b, b + n, x);
-    const double* a = dense_matrix_.data();  // column-major, leading dimension n
-    for (int k = 0; k < n; ++k) std::swap(x[k], x[pivot_[k]]);
-    for (int j = 0; j < n; ++j) {  // L·z = P·b, unit lower triangle
-      const double xj = x[j];
-      if (xj == 0.0) continue;
-      const double* col = a + static_cast<std::size_t>(j) * n;
-      for (int p = lower_start_[j]; p < lower_start_[j + 1]; ++p) x[lower_rows_[p]] -= col[lower_rows_[p]] * xj;
-    }
-    for (int j = n - 1; j >= 0; --j) {  // U·x = z
-      const double* col = a + static_cast<std::size_t>(j) * n;
-      x[j] /= col[j];
-      const double xj = x[j];
-      if (xj == 0.0) continue;
-      for (int p = upper_start_[j]; p < upper_start_[j + 1]; ++p) x[upper_rows_[p]] -= col[upper_rows_[p]] * xj;
-    }
+  if (supernodal_) {
+    work_ = Eigen::Map<const Eigen::VectorXd>(b, n_);
+    Eigen::Map<Eigen::VectorXd>(x, n_) = sparse_lu_.solve(work_);
     return;
   }
-  work_ = Eigen::Map<const Eigen::VectorXd>(b, n);
-  Eigen::Map<Eigen::VectorXd>(x, n) = sparse_lu_.solve(work_);
+  // P·A·Q = L·U: w = P·b, w ← L⁻¹·w, w ← U⁻¹·w, x = Q·w.
+  const Plan& plan = plans_[active_];
+  const int* lower_start = plan.lower_start.data();
+  const int* lower_rows = plan.lower_rows.data();
+  const double* lower_values = plan.lower_values.data();
+  const int* upper_start = plan.upper_start.data();
+  const int* upper_rows = plan.upper_rows.data();
+  const double* upper_values = plan.upper_values.data();
+  double* w = work_.data();
+  for (int i = 0; i < n_; ++i) w[plan.pivot_step[i]] = b[i];
+  for (int k = 0; k < n_; ++k) {
+    const double wk = w[k];
+    if (wk == 0.0) continue;
+    for (int q = lower_start[k]; q < lower_start[k + 1]; ++q) w[lower_rows[q]] -= lower_values[q] * wk;
+  }
+  for (int k = n_ - 1; k >= 0; --k) {
+    const double wk = (w[k] /= plan.diagonal[k]);
+    if (wk == 0.0) continue;
+    for (int q = upper_start[k]; q < upper_start[k + 1]; ++q) w[upper_rows[q]] -= upper_values[q] * wk;
+  }
+  for (int k = 0; k < n_; ++k) x[column_order_[k]] = w[k];
 }
 
 }  // namespace lcc

@@ -1,27 +1,50 @@
 // LU factorisation of a square matrix with a fixed sparsity pattern.
 //
-// Small systems (up to `dense_limit` unknowns) are factorised in dense
-// storage with partial pivoting, by a right-looking elimination written
-// here that skips the zeros of each pivot row and column: below a hundred or
-// so unknowns that is several times cheaper than a sparse LU (whose
-// supernodal bookkeeping then dominates) and than Eigen's blocked dense LU
-// (measured with callgrind: bench/six_pulse_bench, 14 unknowns, and
-// bench/twelve_pulse_bench, 54 unknowns). Larger systems use Eigen's sparse
-// LU; its symbolic analysis (the COLAMD column ordering) runs on the first
-// factorisation only, the pattern never changing. Factorize() reports a
-// zero or non-finite pivot as failure instead of producing infinities.
+// Circuit-sized systems are factorised by a left-looking sparse LU written
+// here (Gilbert & Peierls, SIAM J. Sci. Stat. Comput. 9(5), 1988; laid out
+// in T. A. Davis, "Direct Methods for Sparse Linear Systems", SIAM 2006,
+// ch. 6): columns in a fill-reducing order found once from the pattern
+// (approximate minimum degree on A + Aᵀ), each column a sparse triangular
+// solve against the L built so far, and partial pivoting (the largest entry
+// among the rows not yet pivoted: valve resistances span fifteen decades,
+// so the pivot rows change with the switch states).
+//
+// That search for the pivot rows and the pattern of L and U costs several
+// times the arithmetic itself at circuit sizes (54 unknowns, ~1 300
+// multiply-adds). But a converter's matrices repeat: the same switch states
+// and step sizes come back every cycle. So each factorisation's pivot
+// sequence and pattern is kept as a plan, filed under a signature of the
+// values (the binary exponent of every entry); a later matrix with the same
+// signature is refactorised on that plan, arithmetic only (Davis §6.4,
+// "refactorisation"), and the plan is accepted only if every pivot is still
+// at least `pivot_threshold` times the largest entry below it, which at the
+// default of 1 means exactly the pivots partial pivoting would choose.
+// Otherwise the full factorisation runs and replaces the plan.
+//
+// Very large systems (more than `supernodal_above` unknowns) use Eigen's
+// supernodal sparse LU, whose symbolic analysis runs on the first
+// factorisation only. Factorize() reports a zero or non-finite pivot as
+// failure instead of producing infinities.
 #pragma once
 
-#include <Eigen/Dense>
 #include <Eigen/SparseCore>
 #include <Eigen/SparseLU>
-#include <memory>
+#include <cstdint>
 #include <vector>
 
 namespace lcc {
 
 struct LuOptions {
-  int dense_limit = 64;  // largest system factorised densely
+  // Largest system factorised by the left-looking LU; larger ones go to
+  // Eigen's supernodal LU, which pays off only when columns share long
+  // dense runs, as they do not in circuits of a few hundred nodes.
+  int supernodal_above = 2000;
+  // A kept plan is reused only if each pivot is at least this fraction of
+  // the largest entry in its column below the diagonal (1: the same pivots
+  // as partial pivoting).
+  double pivot_threshold = 1.0;
+  // Plans kept per solver (least recently used replaced first).
+  int max_plans = 48;
 };
 
 class LuSolver {
@@ -36,20 +59,55 @@ class LuSolver {
   // x = A⁻¹·b for the last factorised A (x and b may alias).
   void Solve(const double* b, double* x);
 
-  bool dense() const { return dense_; }
+  bool supernodal() const { return supernodal_; }
   long analyses() const { return analyses_; }
+  // Left-looking path: factorisations that found their pivots afresh, and
+  // those that reused a kept plan.
+  long full_factorizations() const { return full_; }
+  long refactorizations() const { return refactored_; }
 
  private:
-  bool dense_;
+  // A pivot sequence with the pattern of L and U it gives, and the values
+  // of its last factorisation. P·A·Q = L·U, L unit lower triangular; rows of
+  // L and U are pivot steps.
+  struct Plan {
+    std::uint64_t signature = 0;
+    long last_used = 0;
+    std::vector<int> pivot_step;  // row i of A is pivot row pivot_step[i]
+    std::vector<int> lower_start, lower_rows, upper_start, upper_rows;
+    std::vector<double> lower_values, upper_values, diagonal;
+  };
+
+  std::uint64_t Signature(const double* values) const;
+  // Finds the pivots and the pattern afresh.
+  bool FactorizeFully(const double* values, Plan& plan);
+  // Arithmetic only, on the plan's pattern; false if a pivot is no longer acceptable.
+  bool Refactorize(const double* values, Plan& plan);
+  // Rows reachable from the non-zeros of column `col` of A through the
+  // columns of L built so far, written to stack_[top..n) in topological
+  // order; returns top.
+  int Reach(int col, const Plan& plan);
+
+  int n_ = 0;
+  bool supernodal_ = false;
   SparseMatrix sparse_;
+  long analyses_ = 0;
+
+  // Supernodal path.
   Eigen::SparseLU<SparseMatrix, Eigen::COLAMDOrdering<int>> sparse_lu_;
   bool analyzed_ = false;
-  Eigen::MatrixXd dense_matrix_;  // L and U in place after Factorize()
-  std::vector<int> pivot_;        // row exchanged with row k at step k
-  std::vector<int> rows_;         // scratch: non-zero rows of the pivot column
-  std::vector<int> lower_start_, lower_rows_, upper_start_, upper_rows_;  // L and U non-zeros by column
+
+  // Left-looking path.
+  LuOptions options_;
+  std::vector<int> column_order_;  // step k eliminates column column_order_[k] of A
+  std::vector<Plan> plans_;
+  int active_ = -1;                // the plan of the last successful factorisation
+  long clock_ = 0, full_ = 0, refactored_ = 0;
+  // Scratch: the dense column being solved, the DFS stacks and visit marks.
+  std::vector<double> x_;
+  std::vector<int> stack_, dfs_, next_edge_, mark_;
+  int stamp_ = 0;
   Eigen::VectorXd work_;
-  long analyses_ = 0;
 };
 
 }  // namespace lcc

@@ -137,6 +137,7 @@ bool MnaSystem::Rebind(const Circuit& other, std::string* error) {
   consistency_factored_ = false;
   step_factored_h_ = 0.0;
   response_valid_ = false;
+  direct_recomputations_ = 0;
   const std::vector<std::uint8_t> states = states_;
   states_.clear();  // forces the re-stamp
   SetSwitchStates(states);
@@ -185,6 +186,7 @@ bool MnaSystem::SolveConsistent(double t, double* y, double* yp, std::string* er
   }
   if (!consistency_factored_) {
     response_valid_ = false;
+    direct_recomputations_ = 0;
     if (!consistency_lu_->Factorize(m)) {
       *error = fmt::format("the circuit equations are singular at t = {:.9g} s in the present valve states", t);
       return false;
@@ -241,12 +243,29 @@ bool MnaSystem::BackwardEulerStep(double t, double h, double* y, std::string* er
 namespace lcc {
 
 void MnaSystem::RecomputeAlgebraic(double t, double* y) {
-  // y_alg = M⁻¹·(b(t) − G_d·y_d) = Σ_r b_r(t)·(M⁻¹e_r) − Σ_d y_d·(M⁻¹G[:,d]):
-  // a few short vector sums per sample instead of a solve.
+  // y_alg = M⁻¹·(b(t) − G_d·y_d) = Σ_r b_r(t)·(M⁻¹e_r) − Σ_d y_d·(M⁻¹G[:,d]).
+  // The responses make each sample a few short vector sums instead of a
+  // solve, but cost one solve each to build, and are lost at the next
+  // event. Which pays depends on how many samples fall between events, not
+  // known in advance; so the first nr + nd samples after an event are
+  // solved directly and only then are the responses built (the rent-or-buy
+  // rule: never more than twice the cost of the better choice in hindsight).
   const int* outer = pattern_.outerIndexPtr();
   const int* inner = pattern_.innerIndexPtr();
   const int nr = static_cast<int>(source_rows_.size());
   const int nd = static_cast<int>(differential_indices_.size());
+  if (!response_valid_ && direct_recomputations_ < nr + nd) {
+    ++direct_recomputations_;
+    b_.assign(n_, 0.0);
+    Sources(t, b_.data());
+    for (int col : differential_indices_)
+      for (int p = outer[col]; p < outer[col + 1]; ++p) b_[inner[p]] -= g_values_[p] * y[col];
+    z_.resize(n_);
+    consistency_lu_->Solve(b_.data(), z_.data());
+    for (int k = 0; k < n_; ++k)
+      if (!differential_[k]) y[k] = z_[k];
+    return;
+  }
   if (!response_valid_) {
     response_.resize(n_, nr + nd);
     for (int k = 0; k < nr + nd; ++k) {

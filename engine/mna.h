@@ -102,6 +102,7 @@ class MnaSystem {
   std::vector<int> source_rows_;
   Eigen::MatrixXd response_;
   bool response_valid_ = false;
+  int direct_recomputations_ = 0;  // samples solved directly since the last factorisation
   std::unique_ptr<LuSolver> consistency_lu_;
   std::unique_ptr<LuSolver> step_lu_;
   // The factorisations depend only on the switch states (and the step h):

@@ -87,7 +87,8 @@ class Run {
     s.jacobian_evaluations = jac_evals_;
     s.linear_setups = solver_stats_.setups;
     s.symbolic_analyses = solver_stats_.analyses;
-    s.dense_lu = solver_stats_.dense;
+    s.reused_pivot_plans = solver_stats_.reused_plans;
+    s.supernodal_lu = solver_stats_.supernodal;
     if (s.status == RunSummary::Status::kNotRun) s.status = RunSummary::Status::kCompleted;
     FinishWindow();
     return std::move(result_);
@@ -1196,9 +1197,10 @@ std::string RunSummary::FullReport(bool with_wall) const {
   out += fmt::format("  valve switchings          {}\n", switchings);
   out += fmt::format("  residual evaluations      {}\n", residual_evaluations);
   out += fmt::format("  Jacobian evaluations      {}\n", jacobian_evaluations);
-  out += dense_lu ? fmt::format("  LU factorisations         {} (dense)\n", linear_setups)
-                  : fmt::format("  LU factorisations         {} (sparse; symbolic analyses: {})\n", linear_setups,
-                                symbolic_analyses);
+  out += supernodal_lu ? fmt::format("  LU factorisations         {} (supernodal; symbolic analyses: {})\n",
+                                     linear_setups, symbolic_analyses)
+                       : fmt::format("  LU factorisations         {} (left-looking; {} on a kept pivot plan)\n",
+                                     linear_setups, reused_pivot_plans);
   out += fmt::format("  error-test failures       {}\n", error_test_failures);
   out += fmt::format("  nonlinear failures        {}\n", nonlinear_failures);
   out += fmt::format("  root-function evaluations {}\n", root_evaluations);

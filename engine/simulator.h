@@ -71,7 +71,7 @@ struct EngineOptions {
     double relax_step_fraction = 1e-3;
   } events;
 
-  LuOptions lu;  // dense below lu.dense_limit unknowns, sparse above
+  LuOptions lu;  // left-looking sparse LU up to lu.supernodal_above unknowns
 
   // Largest step when `simulate` gives no max_step, in electrical degrees of
   // the fundamental. IDA only sees sign changes at step ends, so a valve
@@ -152,8 +152,9 @@ struct RunSummary {
   long residual_evaluations = 0;
   long jacobian_evaluations = 0;
   long linear_setups = 0;         // numeric LU factorisations for IDA
+  long reused_pivot_plans = 0;    // factorisations that reused a kept pivot sequence
   long symbolic_analyses = 0;
-  bool dense_lu = false;          // small system: dense LU, no symbolic analysis
+  bool supernodal_lu = false;     // Eigen's supernodal LU (else the left-looking one)
   long error_test_failures = 0;
   long nonlinear_failures = 0;
   long root_evaluations = 0;

@@ -28,10 +28,10 @@ LuSolver::SparseMatrix MakeMatrix(int n, double decades, unsigned seed) {
   return m;
 }
 
-void CheckAgainstReference(int n, int dense_limit) {
+void CheckAgainstReference(int n, int supernodal_above) {
   auto m = MakeMatrix(n, 12.0, 42u + n);
-  LuSolver lu(m, LuOptions{dense_limit});
-  REQUIRE(lu.dense() == (n <= dense_limit));
+  LuSolver lu(m, LuOptions{supernodal_above});
+  REQUIRE(lu.supernodal() == (n > supernodal_above));
   REQUIRE(lu.Factorize(m.valuePtr()));
   Eigen::VectorXd b = Eigen::VectorXd::LinSpaced(n, -1.0, 2.0);
   Eigen::VectorXd x(n);
@@ -45,18 +45,68 @@ void CheckAgainstReference(int n, int dense_limit) {
   REQUIRE((x - reference).norm() <= 1e-6 * reference.norm());
 }
 
-TEST_CASE("DenseAndSparseLuAgreeWithAFullPivotingReference", "[lu]") {
-  for (int n : {5, 20, 64}) CheckAgainstReference(n, 64);   // dense path
-  for (int n : {20, 120}) CheckAgainstReference(n, 8);      // sparse path
+TEST_CASE("BothLuPathsAgreeWithAFullPivotingReference", "[lu]") {
+  for (int n : {1, 5, 20, 64, 300}) CheckAgainstReference(n, 2000);  // left-looking
+  for (int n : {20, 120}) CheckAgainstReference(n, 8);               // supernodal
+}
+
+TEST_CASE("TheLeftLookingLuRepivotsWhenTheValuesChangeByDecades", "[lu]") {
+  // A valve switching moves an entry by ten decades: the pivot rows of the
+  // last factorisation may no longer be acceptable, and must not be reused.
+  auto m = MakeMatrix(40, 6.0, 11u);
+  LuSolver lu(m);
+  const Eigen::VectorXd b = Eigen::VectorXd::LinSpaced(40, 1.0, 3.0);
+  for (int round = 0; round < 4; ++round) {
+    for (int k = round; k < m.nonZeros(); k += 7) m.valuePtr()[k] *= (round % 2 ? 1e-10 : 1e10);
+    REQUIRE(lu.Factorize(m.valuePtr()));
+    Eigen::VectorXd x(40);
+    lu.Solve(b.data(), x.data());
+    const Eigen::MatrixXd dense(m);
+    const double backward = (dense * x - b).norm() / (dense.norm() * x.norm());
+    INFO("round " << round << ", backward error " << backward);
+    REQUIRE(backward < 1e-13);
+  }
 }
 
 TEST_CASE("RefactorisingWithNewValuesReusesThePattern", "[lu]") {
   auto m = MakeMatrix(30, 6.0, 7u);
-  LuSolver lu(m, LuOptions{8});
-  REQUIRE(lu.Factorize(m.valuePtr()));
-  for (int k = 0; k < m.nonZeros(); ++k) m.valuePtr()[k] *= 1.0 + 0.1 * (k % 3);
-  REQUIRE(lu.Factorize(m.valuePtr()));
-  REQUIRE(lu.analyses() == 1);  // the symbolic analysis ran once
+  for (int supernodal_above : {8, 2000}) {
+    LuSolver lu(m, LuOptions{supernodal_above});
+    REQUIRE(lu.Factorize(m.valuePtr()));
+    for (int k = 0; k < m.nonZeros(); ++k) m.valuePtr()[k] *= 1.0 + 0.1 * (k % 3);
+    REQUIRE(lu.Factorize(m.valuePtr()));
+    REQUIRE(lu.analyses() == 1);  // the symbolic analysis (ordering) ran once
+  }
+}
+
+TEST_CASE("AKeptPivotPlanIsReusedOnlyWhileItsPivotsAreStillTheLargest", "[lu]") {
+  // [[a, 1], [c, −1]]: partial pivoting takes the larger of |a| and |c|.
+  // Both pairs below share the binary exponents of their entries (all in
+  // [1, 2)), hence the signature under which plans are kept; only the
+  // second keeps the first's pivot row.
+  auto solve = [](LuSolver& lu, double a, double c) {
+    LuSolver::SparseMatrix m(2, 2);
+    std::vector<Eigen::Triplet<double, int>> t{{0, 0, a}, {1, 0, c}, {0, 1, 1.0}, {1, 1, -1.0}};
+    m.setFromTriplets(t.begin(), t.end());
+    m.makeCompressed();
+    REQUIRE(lu.Factorize(m.valuePtr()));
+    const Eigen::Vector2d b(1.0, -1.0);
+    Eigen::Vector2d x;
+    lu.Solve(b.data(), x.data());
+    const Eigen::Matrix2d dense(m);
+    REQUIRE((dense * x - b).norm() <= 1e-15 * dense.norm() * x.norm());
+  };
+  LuSolver::SparseMatrix pattern(2, 2);
+  pattern.setIdentity();
+  pattern.coeffRef(1, 0) = pattern.coeffRef(0, 1) = 1.0;
+  LuSolver lu(pattern);
+  solve(lu, 1.0, 1.5);  // pivot on row 1
+  REQUIRE(lu.full_factorizations() == 1);
+  solve(lu, 1.1, 1.7);  // row 1 still the larger: the plan is reused
+  REQUIRE(lu.refactorizations() == 1);
+  solve(lu, 1.9, 1.2);  // row 0 now larger: the plan is refused and redone
+  REQUIRE(lu.full_factorizations() == 2);
+  REQUIRE(lu.refactorizations() == 1);
 }
 
 TEST_CASE("AStructurallySingularMatrixIsReported", "[lu]") {
@@ -64,8 +114,11 @@ TEST_CASE("AStructurallySingularMatrixIsReported", "[lu]") {
   std::vector<Eigen::Triplet<double, int>> t{{0, 0, 1.0}, {1, 1, 0.0}, {2, 2, 1.0}, {1, 0, 0.0}};
   m.setFromTriplets(t.begin(), t.end());
   m.makeCompressed();
-  LuSolver dense(m, LuOptions{64});
-  REQUIRE_FALSE(dense.Factorize(m.valuePtr()));
+  LuSolver left_looking(m);
+  REQUIRE_FALSE(left_looking.Factorize(m.valuePtr()));
+  // A zero pivot is refused, and the solver factorises a good matrix afterwards.
+  m.coeffRef(1, 1) = 2.0;
+  REQUIRE(left_looking.Factorize(m.valuePtr()));
 }
 
 }  // namespace
