@@ -47,7 +47,10 @@ bool LuSolver::Factorize(const double* values) {
   int slot = -1;
   for (int i = 0; i < static_cast<int>(plans_.size()); ++i)
     if (plans_[i].signature == signature) slot = i;
-  if (slot >= 0 && Refactorize(values, plans_[slot])) {
+  const std::size_t bytes = sizeof(double) * static_cast<std::size_t>(sparse_.nonZeros());
+  if (slot >= 0 && std::memcmp(plans_[slot].matrix.data(), values, bytes) == 0) {
+    ++reused_;  // the very matrix factorised before (same switch states, same step): nothing to do
+  } else if (slot >= 0 && Refactorize(values, plans_[slot])) {
     ++refactored_;
   } else {
     if (slot < 0) {
@@ -69,6 +72,7 @@ bool LuSolver::Factorize(const double* values) {
     }
   }
   plans_[slot].signature = signature;
+  plans_[slot].matrix.assign(values, values + sparse_.nonZeros());
   plans_[slot].last_used = ++clock_;
   active_ = slot;
   return true;

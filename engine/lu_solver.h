@@ -19,7 +19,10 @@
 // "refactorisation"), and the plan is accepted only if every pivot is still
 // at least `pivot_threshold` times the largest entry below it, which at the
 // default of 1 means exactly the pivots partial pivoting would choose.
-// Otherwise the full factorisation runs and replaces the plan.
+// Otherwise the full factorisation runs and replaces the plan. A matrix
+// identical to the one a plan last factorised (the consistency and
+// relaxation matrices after an event depend on the switch states alone)
+// takes its factors as they are.
 //
 // Very large systems (more than `supernodal_above` unknowns) use Eigen's
 // supernodal sparse LU, whose symbolic analysis runs on the first
@@ -44,7 +47,7 @@ struct LuOptions {
   // as partial pivoting).
   double pivot_threshold = 1.0;
   // Plans kept per solver (least recently used replaced first).
-  int max_plans = 48;
+  int max_plans = 128;
 };
 
 class LuSolver {
@@ -65,6 +68,9 @@ class LuSolver {
   // those that reused a kept plan.
   long full_factorizations() const { return full_; }
   long refactorizations() const { return refactored_; }
+  // Factorisations of a matrix equal to the one a kept plan last factorised:
+  // its factors are used again as they are.
+  long reused_factorizations() const { return reused_; }
 
  private:
   // A pivot sequence with the pattern of L and U it gives, and the values
@@ -76,6 +82,7 @@ class LuSolver {
     std::vector<int> pivot_step;  // row i of A is pivot row pivot_step[i]
     std::vector<int> lower_start, lower_rows, upper_start, upper_rows;
     std::vector<double> lower_values, upper_values, diagonal;
+    std::vector<double> matrix;  // the values of A factorised
   };
 
   std::uint64_t Signature(const double* values) const;
@@ -102,7 +109,7 @@ class LuSolver {
   std::vector<int> column_order_;  // step k eliminates column column_order_[k] of A
   std::vector<Plan> plans_;
   int active_ = -1;                // the plan of the last successful factorisation
-  long clock_ = 0, full_ = 0, refactored_ = 0;
+  long clock_ = 0, full_ = 0, refactored_ = 0, reused_ = 0;
   // Scratch: the dense column being solved, the DFS stacks and visit marks.
   std::vector<double> x_;
   std::vector<int> stack_, dfs_, next_edge_, mark_;

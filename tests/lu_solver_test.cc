@@ -107,6 +107,9 @@ TEST_CASE("AKeptPivotPlanIsReusedOnlyWhileItsPivotsAreStillTheLargest", "[lu]") 
   solve(lu, 1.9, 1.2);  // row 0 now larger: the plan is refused and redone
   REQUIRE(lu.full_factorizations() == 2);
   REQUIRE(lu.refactorizations() == 1);
+  solve(lu, 1.9, 1.2);  // the same matrix again: its factors are taken as they are
+  REQUIRE(lu.reused_factorizations() == 1);
+  REQUIRE(lu.full_factorizations() == 2);
 }
 
 TEST_CASE("AStructurallySingularMatrixIsReported", "[lu]") {
