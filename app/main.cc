@@ -6,9 +6,11 @@
 
 #include <atomic>
 #include <csignal>
+#include <cstdio>
 #include <iostream>
 
 #include "app/commands.h"
+#include "app/output_guard.h"
 
 namespace {
 
@@ -19,7 +21,7 @@ extern "C" void OnInterrupt(int) { g_interrupted.store(true); }
 
 }  // namespace
 
-int main(int argc, char** argv) {
+static int Main(int argc, char** argv) {
   CLI::App app{"lccsim: simulates line-commutated converter circuits described in a netlist"};
   app.require_subcommand(1);
 
@@ -42,6 +44,12 @@ int main(int argc, char** argv) {
   run->add_option("--formats", formats, "output formats among csv, json, comtrade, svg (default: all)")
       ->delimiter(',')
       ->check(CLI::IsMember(lcc::AllFormats()));
+  run->add_flag("--overwrite", run_options.overwrite,
+                "write into OUT even if it is a non-empty folder lccsim did not make");
+  std::string max_output = "2 GB";
+  run->add_option("--max-output", max_output,
+                  "refuse a batch whose waveforms would exceed this size, estimated before it runs (e.g. 500 MB)")
+      ->capture_default_str();
 
   std::string report_dir;
   auto* report = app.add_subcommand("report", "print the report of a finished case again, without simulating");
@@ -56,6 +64,8 @@ int main(int argc, char** argv) {
   auto* merge = app.add_subcommand("merge", "join the finished cases of shard runs into one summary");
   merge->add_option("DIR", merge_dirs, "output folders of the shards")->required();
   merge->add_option("--out", merge_out, "where summary.csv and summary.json go (default: the first DIR)");
+  bool merge_overwrite = false;
+  merge->add_flag("--overwrite", merge_overwrite, "write into --out even if it is a non-empty folder lccsim did not make");
 
   std::string check_file;
   auto* check = app.add_subcommand("check", "parse, elaborate and check a netlist; list nodes, elements, unknowns");
@@ -81,6 +91,10 @@ int main(int argc, char** argv) {
           return lcc::kExitInputError;
         }
       }
+      if (!lcc::ParseByteSize(max_output, &run_options.max_output_bytes)) {
+        std::cerr << "lccsim: error: --max-output takes a size such as 2 GB, 500 MB or 1e9\n";
+        return lcc::kExitInputError;
+      }
       run_options.progress = isatty(STDERR_FILENO);
       run_options.engine.limits.cancel = &g_interrupted;
       std::signal(SIGINT, OnInterrupt);
@@ -89,7 +103,7 @@ int main(int argc, char** argv) {
     }
     if (*cases) return lcc::CasesCommand(cases_file, std::cout, std::cerr);
     if (*merge) return lcc::MergeCommand(merge_dirs, merge_out.empty() ? merge_dirs.front() : merge_out, std::cout,
-                                         std::cerr);
+                                         std::cerr, merge_overwrite);
     if (*report) return lcc::ReportCommand(report_dir, std::cout, std::cerr);
     if (*check) return lcc::CheckCommand(check_file, std::cout, std::cerr);
   } catch (const std::exception& e) {
@@ -97,4 +111,15 @@ int main(int argc, char** argv) {
     return lcc::kExitSimulationFailed;
   }
   return lcc::kExitInputError;
+}
+
+int main(int argc, char** argv) {
+  try {
+    return Main(argc, argv);
+  } catch (...) {
+    // Main() reports what it knows; this is the last guard, so that nothing
+    // ends the process without a message and an exit code.
+    std::fputs("lccsim: internal error\n", stderr);
+    return lcc::kExitSimulationFailed;
+  }
 }

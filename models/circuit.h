@@ -116,7 +116,7 @@ class Circuit {
   const std::vector<std::unique_ptr<Device>>& devices() const { return devices_; }
   const Device* FindDevice(const std::string& name) const;
 
-  void AddAlias(const std::string& name, DeviceAlias alias) { aliases_[name] = alias; }
+  void AddAlias(const std::string& name, DeviceAlias alias) { aliases_[name] = std::move(alias); }
   void AddValveGroup(ValveGroup group) { valve_groups_.push_back(std::move(group)); }
   const std::vector<ValveGroup>& valve_groups() const { return valve_groups_; }
   void AddSupply(SupplyGroup s) { supplies_.push_back(std::move(s)); }

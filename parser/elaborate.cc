@@ -31,7 +31,7 @@ namespace fs = std::filesystem;
 using FilePtr = std::shared_ptr<const SourceFile>;
 
 // Largest file read, a guard against pointing the tool at the wrong file.
-constexpr std::uintmax_t kMaxFileBytes = 64u * 1024u * 1024u;
+constexpr std::uintmax_t kMaxFileBytes = std::uintmax_t{64} * 1024 * 1024;
 constexpr int kMaxIncludeDepth = 32;
 
 // The settings of one statement after checking.
@@ -100,7 +100,7 @@ class Elaborator {
     RunText(std::make_shared<SourceFile>(path, std::move(text)));
   }
 
-  void RunText(FilePtr file) {
+  void RunText(const FilePtr& file) {
     design_.files.push_back(file);
     Layout layout = LayOut(file, diags_);
     for (const auto& span : layout.statements) {
@@ -1098,9 +1098,9 @@ class Elaborator {
         if (h > 0) e.sines.push_back({h * vph, n * f, n * (phase + shift)});
       const std::string ph = phases[k];
       const int terminal = design_.circuit.Node(ports[k].name, SourceLoc{file, ports[k].offset});
-      auto& branch = design_.circuit.Add(
-          std::make_unique<SourceBranch>(name + "." + ph, loc, star, terminal, e, r, l));
-      design_.circuit.AddAlias(name + "." + ph, {{{&branch, 1.0}}});
+      const std::string phase_name = name + '.' + ph;
+      auto& branch = design_.circuit.Add(std::make_unique<SourceBranch>(phase_name, loc, star, terminal, e, r, l));
+      design_.circuit.AddAlias(phase_name, {{{&branch, 1.0}}});
       group.terminals[k] = terminal;
       group.devices[k] = static_cast<int>(design_.circuit.devices().size()) - 1;
     }

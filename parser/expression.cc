@@ -302,7 +302,19 @@ std::optional<double> EvaluateProgram(const Program& program, const double* sign
     }
     return std::nan("");
   };
+  // How many operands each operation takes from the stack. A program from
+  // CompileExpression() always has them; one that does not (a defect) is
+  // refused rather than read out of bounds.
+  auto operands = [](const ProgramOp& op) -> std::size_t {
+    switch (op.code) {
+      case Code::kConst: case Code::kSignal: return 0;
+      case Code::kNeg: return 1;
+      case Code::kCall: return static_cast<std::size_t>(std::max(op.index, 1));
+      default: return 2;
+    }
+  };
   for (const auto& op : program.ops) {
+    if (sp < operands(op)) return fail(op.offset, "malformed expression program (operand missing)");
     switch (op.code) {
       case Code::kConst:
         if (sp == kStack) return fail(op.offset, "expression too deep");

@@ -113,13 +113,10 @@ Layout LayOut(const std::shared_ptr<const SourceFile>& file_ptr, Diagnostics& di
       const bool in_bracket = !open.empty() && open.back().bracket != '{';
       std::size_t next = i + 1;
       char next_char = FirstSignificant(text, next);
-      bool continues = false;
-      if (in_bracket) {
-        continues = true;
-      } else if (in_statement && !last_was_brace && next_char != 0 &&
-                 next_char != '}' && IndentOf(text, next) > statement_indent) {
-        continues = true;
-      }
+      // Inside brackets a statement always goes on; otherwise a line
+      // indented deeper than the statement's first continues it.
+      const bool continues = in_bracket || (in_statement && !last_was_brace && next_char != 0 && next_char != '}' &&
+                                            IndentOf(text, next) > statement_indent);
       if (continues) {
         out.clean[i] = ' ';
       } else {

@@ -25,7 +25,7 @@ namespace lcc {
 // Deepest bracket nesting accepted anywhere in a file.
 constexpr int kMaxBracketNesting = 64;
 // Longest statement accepted (a guard against runaway input, not a style rule).
-constexpr std::size_t kMaxStatementBytes = 64 * 1024;
+constexpr std::size_t kMaxStatementBytes = std::size_t{64} * 1024;
 
 struct StatementSpan {
   std::size_t begin = 0;  // first non-blank byte

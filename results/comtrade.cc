@@ -51,6 +51,7 @@ void WriteComtrade(const std::string& base, const ComtradeHeader& h, const Probe
   const auto& cols = rec.columns();
   const auto& t = rec.time();
   std::vector<Scale> scales;
+  scales.reserve(cols.size());
   for (const auto& c : cols) scales.push_back(ScaleOf(c));
   // min and max fields: the range of the integers actually written.
   for (std::size_t k = 0; k < cols.size(); ++k) {

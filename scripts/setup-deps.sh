@@ -1,24 +1,38 @@
 #!/usr/bin/env bash
-# Installs the Debian packages lccsim builds against, and nothing else.
-# Does nothing (and asks for no network) when every package is present.
+# Installs the Debian packages lccsim needs, at the exact versions listed in
+# scripts/debian-packages.txt, and nothing else (no recommended packages).
+# Does nothing, and asks for no network, when they are all present.
+#
+#   bash scripts/setup-deps.sh              the build and test-suite packages
+#   bash scripts/setup-deps.sh --hardening  also clang, its sanitizer and
+#                                           fuzzer runtime, and clang-tidy
+#
+# A package already installed at another version (say, by a Debian point
+# release on this machine) is left as it is, with a warning naming both
+# versions: the machine's own packages are not downgraded behind its back.
 set -euo pipefail
+cd "$(dirname "$0")/.."
 
-packages=(
-  cmake g++ ninja-build pkg-config
-  libeigen3-dev libsundials-dev libboost-dev
-  catch2 libcli11-dev libfmt-dev nlohmann-json3-dev libfftw3-dev
-  librsvg2-bin libxml2-utils zlib1g-dev
-)
+stages="build"
+if [ "${1:-}" = "--hardening" ]; then stages="build hardening"; fi
 
 missing=()
-for p in "${packages[@]}"; do
-  if ! dpkg-query -W -f='${Status}' "$p" 2>/dev/null | grep -q "install ok installed"; then
-    missing+=("$p")
-  fi
-done
+count=0
+while read -r name version stage; do
+  case "$name" in ''|'#'*) continue ;; esac
+  case " $stages " in *" $stage "*) ;; *) continue ;; esac
+  count=$((count + 1))
+  installed=$(dpkg-query -W -f='${Status} ${Version}' "$name" 2>/dev/null || true)
+  case "$installed" in
+    "install ok installed $version") ;;
+    "install ok installed "*)
+      echo "setup-deps: warning: $name is installed at ${installed#install ok installed }, not the listed $version" >&2 ;;
+    *) missing+=("$name=$version") ;;
+  esac
+done < scripts/debian-packages.txt
 
 if [ ${#missing[@]} -eq 0 ]; then
-  echo "setup-deps: all ${#packages[@]} packages present"
+  echo "setup-deps: all $count packages present"
   exit 0
 fi
 
