@@ -13,6 +13,7 @@
 #include <thread>
 
 #include "app/case_runner.h"
+#include "app/output_guard.h"
 #include "results/analysis_json.h"
 #include "results/atomic_file.h"
 #include "results/report.h"
@@ -88,12 +89,11 @@ int RunCommand(const RunCommandOptions& options, std::ostream& out, std::ostream
                        options.shard_count);
     return kExitInputError;
   }
-  std::error_code ec;
-  fs::create_directories(options.out_dir, ec);
-  if (ec) {
-    err << fmt::format("lccsim: error: cannot create '{}': {}\n", options.out_dir, ec.message());
+  if (const std::string refused = PrepareOutputFolder(options.out_dir, options.overwrite); !refused.empty()) {
+    err << "lccsim: error: " << refused << "\n";
     return kExitInputError;
   }
+  std::error_code ec;
 
   // A run killed outright (SIGKILL, power loss) leaves temporary files
   // behind, never a truncated final file; a resumed run clears them.
@@ -119,6 +119,18 @@ int RunCommand(const RunCommandOptions& options, std::ostream& out, std::ostream
     } else {
       to_run.push_back(k);
     }
+  }
+
+  // Before anything runs: would the waveforms fill a disk?
+  const WaveformEstimate size = EstimateWaveformBytes(design->study, options.formats, to_run.size());
+  if (size.bytes > options.max_output_bytes) {
+    err << fmt::format(
+        "lccsim: error: this batch would write about {} of waveforms ({} case(s) x {} samples x {} probe(s)), more "
+        "than --max-output {}.\n    To go on: raise --max-output, write fewer waveform formats (--formats json,svg), "
+        "sample less often (simulate ... sample = ...), record fewer probes, or split the batch (--shard I/N).\n",
+        FormatBytes(static_cast<double>(size.bytes)), size.cases, size.samples, size.columns,
+        FormatBytes(static_cast<double>(options.max_output_bytes)));
+    return kExitInputError;
   }
 
   const int jobs = std::max(1, options.jobs > 0 ? options.jobs
@@ -167,15 +179,17 @@ int RunCommand(const RunCommandOptions& options, std::ostream& out, std::ostream
     timing += fmt::format("{},{:.6f},{:.6f}\n", a.folder, results[k]->wall_seconds, a.run.wall_s);
     analyses.push_back(a);
   }
+  // Each case's outcome first: if the summaries cannot be written (a full
+  // disk), what happened to every case is still said.
+  for (const auto& a : analyses)
+    out << fmt::format("{}: {}{}\n", a.folder, a.run.status, a.run.message.empty() ? "" : " (" + a.run.message + ")");
   try {
     WriteSummaries(options.out_dir, ShardSuffix(options), options.formats, analyses);
     WriteFileAtomically((fs::path(options.out_dir) / ("timing" + ShardSuffix(options) + ".csv")).string(), timing);
   } catch (const std::exception& e) {
-    err << "lccsim: error: " << e.what() << "\n";
+    err << "lccsim: error: the summaries were not written: " << e.what() << "\n";
     return kExitSimulationFailed;
   }
-  for (const auto& a : analyses)
-    out << fmt::format("{}: {}{}\n", a.folder, a.run.status, a.run.message.empty() ? "" : " (" + a.run.message + ")");
   out << fmt::format("results: {} ({} case{}{})\n", options.out_dir, analyses.size(), analyses.size() == 1 ? "" : "s",
                      failed ? fmt::format(", {} failed", failed) : "");
   if (interrupted) {
@@ -198,7 +212,7 @@ int CasesCommand(const std::string& netlist, std::ostream& out, std::ostream& er
 }
 
 int MergeCommand(const std::vector<std::string>& dirs, const std::string& out_dir, std::ostream& out,
-                 std::ostream& err) {
+                 std::ostream& err, bool overwrite) {
   std::map<int, CaseAnalysis> cases;
   for (const auto& dir : dirs) {
     std::error_code ec;
@@ -222,9 +236,13 @@ int MergeCommand(const std::vector<std::string>& dirs, const std::string& out_di
     }
   }
   std::vector<CaseAnalysis> list;
+  list.reserve(cases.size());
   for (auto& [index, a] : cases) list.push_back(std::move(a));
+  if (const std::string refused = PrepareOutputFolder(out_dir, overwrite); !refused.empty()) {
+    err << "lccsim: error: " << refused << "\n";
+    return kExitInputError;
+  }
   try {
-    fs::create_directories(out_dir);
     WriteSummaries(out_dir, "", AllFormats(), list);
   } catch (const std::exception& e) {
     err << "lccsim: error: " << e.what() << "\n";

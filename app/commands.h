@@ -3,6 +3,7 @@
 // messages to the streams it is given, so tests can run them in-process.
 #pragma once
 
+#include <cstdint>
 #include <ostream>
 #include <set>
 #include <string>
@@ -32,6 +33,11 @@ struct RunCommandOptions {
   int shard_index = 0;          // run only the cases k with k % shard_count == shard_index
   int shard_count = 1;
   bool progress = false;        // progress lines on the error stream
+  // Write into an existing non-empty folder that lccsim did not make
+  // (app/output_guard.h); without it such a folder is refused.
+  bool overwrite = false;
+  // Largest waveform output a batch may write, estimated before it runs.
+  std::uint64_t max_output_bytes = 2'000'000'000;
 };
 
 // Runs every case of the netlist (its cases × sweep points), `jobs` at a
@@ -44,7 +50,7 @@ int CasesCommand(const std::string& netlist, std::ostream& out, std::ostream& er
 // Reads every finished case under the folders and writes OUT/summary.csv
 // and OUT/summary.json, as one run of all of them would have.
 int MergeCommand(const std::vector<std::string>& dirs, const std::string& out_dir, std::ostream& out,
-                 std::ostream& err);
+                 std::ostream& err, bool overwrite = false);
 // Prints the report of a finished case again from CASE/analysis.json.
 int ReportCommand(const std::string& case_dir, std::ostream& out, std::ostream& err);
 int CheckCommand(const std::string& netlist, std::ostream& out, std::ostream& err);

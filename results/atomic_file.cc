@@ -3,7 +3,9 @@
 #include <fmt/format.h>
 #include <unistd.h>
 
+#include <cerrno>
 #include <cstdio>
+#include <cstring>
 #include <filesystem>
 #include <stdexcept>
 
@@ -25,14 +27,18 @@ AtomicFile::~AtomicFile() {
 }
 
 void AtomicFile::Commit() {
+  errno = 0;
   out_.flush();
   const bool good = static_cast<bool>(out_);
   out_.close();
   if (!good || out_.fail()) {
+    // The stream keeps no error code; errno from the failed write or close
+    // usually says which (ENOSPC: the disk is full).
+    const std::string why = errno != 0 ? std::strerror(errno) : "disk full or no permission?";
     std::error_code ec;
     std::filesystem::remove(temp_, ec);
     committed_ = true;
-    throw std::runtime_error(fmt::format("cannot write '{}' (disk full or no permission?)", path_));
+    throw std::runtime_error(fmt::format("cannot write '{}': {}", path_, why));
   }
   if (std::rename(temp_.c_str(), path_.c_str()) != 0) {
     std::error_code ec;
