@@ -182,7 +182,10 @@ CaseRunResult RunCaseUnwritten(const CaseRunOptions& o, const CaseInstance& c) {
     const std::string base = (dir / "waveforms").string();
     if (o.formats.count("csv")) WriteWaveformsCsv(base + ".csv", recorder.probes());
     if (o.formats.count("comtrade"))
-      WriteComtrade(base, {"lccsim", c.folder, period > 0 ? 1.0 / period : 0.0, run.summary.sample_used},
+      // A failed run's record ends where it failed: its device id says so.
+      WriteComtrade(base,
+                    {"lccsim", run.summary.status == RunSummary::Status::kFailed ? c.folder + " (partial)" : c.folder,
+                     period > 0 ? 1.0 / period : 0.0, run.summary.sample_used},
                     recorder.probes());
     if (o.formats.count("svg")) {
       PlotOptions plot;

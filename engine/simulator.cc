@@ -271,10 +271,12 @@ class Run {
         return;
       }
       double tret = t;
-      const int flag = IDASolve(mem, t_end_, &tret, y_.get(), yp_.get(), IDA_ONE_STEP);
+      int flag = IDASolve(mem, t_end_, &tret, y_.get(), yp_.get(), IDA_ONE_STEP);
+      if (flag < 0 && RetryRestart()) continue;
       if (flag < 0) {
-        Fail(fmt::format("the integrator failed at t = {:.9g} s: {}{}", tret, IDAGetReturnFlagName(flag),
-                         last_ida_message_.empty() ? "" : " (" + last_ida_message_ + ")"));
+        Fail(fmt::format("the integrator failed at t = {:.9g} s: {}{}{}{}", tret, IDAGetReturnFlagName(flag),
+                         last_ida_message_.empty() ? "" : " (" + last_ida_message_ + ")", RecentSwitchingText(tret),
+                         ValveStateText()));
         return;
       }
       t = tret;
@@ -408,8 +410,39 @@ class Run {
     const double h0 = std::min(result_.summary.max_step_used, h_last) * options_.events.restart_step_fraction;
     Check(IDAReInit(mem, t, y_.get(), yp_.get()), "IDAReInit");
     t_restart_ = t;
+    restart_y_.assign(N_VGetArrayPointer(y_.get()), N_VGetArrayPointer(y_.get()) + n_);
+    restart_yp_.assign(N_VGetArrayPointer(yp_.get()), N_VGetArrayPointer(yp_.get()) + n_);
+    restart_h0_ = h0;
+    restart_retried_ = false;
     if (h0 > 0) Check(IDASetInitStep(mem, h0), "IDASetInitStep");
     ArmStopTime(t);
+    SetRootDirections();
+    return true;
+  }
+
+  // IDA failing its very first step after an event (the error or the
+  // Newton test failing down to its smallest step) has been seen where a
+  // nearly idle valve leaves a node held only by the blocking valves' Roff
+  // (a capacitor-filtered bridge at no load): a parasitic mode of L/Roff ~
+  // 1 ps the restart step is many decades longer than. Started again from
+  // the same state with a first step ten thousand times shorter, IDA gets
+  // through; the cost is a few extra steps, once. Returns true if the
+  // restart was retried (once per event).
+  bool RetryRestart() {
+    void* mem = ida_.get();
+    long steps = 0;
+    IDAGetNumSteps(mem, &steps);
+    if (steps > 0 || restart_retried_ || restart_y_.empty()) return false;
+    restart_retried_ = true;
+    ++result_.summary.restart_retries;
+    std::copy(restart_y_.begin(), restart_y_.end(), N_VGetArrayPointer(y_.get()));
+    std::copy(restart_yp_.begin(), restart_yp_.end(), N_VGetArrayPointer(yp_.get()));
+    Accumulate();
+    Check(IDAReInit(mem, t_restart_, y_.get(), yp_.get()), "IDAReInit");
+    const double h0 = (restart_h0_ > 0 ? restart_h0_ : result_.summary.max_step_used) * 1e-4;
+    Check(IDASetInitStep(mem, h0), "IDASetInitStep");
+    last_ida_message_.clear();
+    ArmStopTime(t_restart_);
     SetRootDirections();
     return true;
   }
@@ -849,6 +882,18 @@ class Run {
     return list;
   }
 
+  // The switchings of the last two largest steps before t: what was
+  // happening when a run failed.
+  std::string RecentSwitchingText(double t) const {
+    const double since = t - 2 * result_.summary.max_step_used;
+    std::string text;
+    int shown = 0;
+    for (auto it = result_.events.rbegin(); it != result_.events.rend() && it->t >= since && shown < 8; ++it, ++shown)
+      text = fmt::format("{} {} at {:.9g} s{}{}", circuit_->devices()[it->device]->name(), it->on ? "on" : "off",
+                         it->t, text.empty() ? "" : ", ", text);
+    return text.empty() ? "; no valve switched in the last two steps" : "; switching just before: " + text;
+  }
+
   std::string ValveStateText() const {
     std::string on;
     for (const auto& v : valves_)
@@ -1116,6 +1161,10 @@ class Run {
   double period_ = 0.0;
   double t_end_ = 0.0;
   double t_restart_ = 0.0;  // where IDA was last (re)initialised
+  // The state IDA was last restarted from, and its first step, for RetryRestart().
+  std::vector<double> restart_y_, restart_yp_;
+  double restart_h0_ = 0.0;
+  bool restart_retried_ = false;
   Eigen::VectorXcd start_phasor_;  // see StartPhasor()
   bool start_phasor_solved_ = false, start_phasor_ok_ = false;
   double next_gate_edge_ = std::numeric_limits<double>::infinity();
@@ -1194,6 +1243,7 @@ std::string RunSummary::FullReport(bool with_wall) const {
   out += fmt::format("  analysis window           {:.9g} s .. {:.9g} s\n", window_begin, window_end);
   out += fmt::format("  integration steps         {}\n", steps);
   out += fmt::format("  events (root returns)     {}\n", events);
+  if (restart_retries > 0) out += fmt::format("  restarts retried          {} (with a shorter first step)\n", restart_retries);
   out += fmt::format("  valve switchings          {}\n", switchings);
   out += fmt::format("  residual evaluations      {}\n", residual_evaluations);
   out += fmt::format("  Jacobian evaluations      {}\n", jacobian_evaluations);

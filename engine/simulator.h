@@ -81,8 +81,12 @@ struct EngineOptions {
   double default_max_step_degrees = 2.0;
 
   struct Limits {
+    // No case may hang: a run that reaches either limit ends, failed, with
+    // the limit and the time reached in its message, its samples kept.
+    // The step limit is about ten thousand times what a second of a
+    // twelve-pulse converter takes; the wall-clock limit an hour.
     long max_steps = 20'000'000;      // integration steps per run
-    double max_wall_seconds = 0.0;    // 0: no limit
+    double max_wall_seconds = 3600.0; // s per run (0: no limit)
     // Set from outside (Ctrl-C): the run stops at its next step, failed
     // with the message "interrupted".
     const std::atomic<bool>* cancel = nullptr;
@@ -159,6 +163,7 @@ struct RunSummary {
   long nonlinear_failures = 0;
   long root_evaluations = 0;
   long events = 0;                // root returns handled
+  long restart_retries = 0;       // restarts after an event retried with a shorter first step
   long switchings = 0;            // valve state changes
   long samples = 0;
   double wall_seconds = 0.0;
