@@ -46,6 +46,10 @@ TEST_CASE("AFolderLccsimDidNotMakeIsNotWrittenIntoUnlessAllowed", "[output]") {
   REQUIRE_FALSE(fs::exists(dir / "theirs" / kOutputMarker));
   REQUIRE(PrepareOutputFolder((dir / "theirs").string(), true).empty());
   REQUIRE(testing::ReadWhole(dir / "theirs" / "thesis.tex") == "keep me\n");
+  // A place nobody may write (not even root: /proc takes no new entries).
+  const std::string denied = PrepareOutputFolder("/proc/lccsim-guard-test/out", false);
+  INFO(denied);
+  REQUIRE(denied.find("cannot create '/proc/lccsim-guard-test/out'") != std::string::npos);
   // A file where the folder should be.
   std::ofstream(dir / "plain") << "x";
   REQUIRE(PrepareOutputFolder((dir / "plain").string(), true).find("not a folder") != std::string::npos);
