@@ -234,6 +234,28 @@ probe Vd = p - n
   REQUIRE(std::abs(c.Window("Vd").mean - peak) / peak < 0.003);
 }
 
+TEST_CASE("StressTheChatteringGuardNamesTheValveAndTheRemedy", "[stress]") {
+  // The guard ends a run whose valves switch again and again within a
+  // sliver of a period. Made to trip on an ordinary bridge (five events in
+  // a row each within a tenth of a period of the last) to check what it
+  // says: the valve, the count, the time, and what to try.
+  Bridge b;
+  EngineOptions o = Limited();
+  o.events.chatter_events = 5;
+  o.events.chatter_window = 0.1;
+  Diagnostics diags;
+  auto design = ElaborateText("s.lcc", b.Netlist(), diags);
+  REQUIRE(design);
+  CheckTopology(design->circuit, diags);
+  ProbeRecorder recorder(design->study.probes);
+  const RunResult run = lcc::Simulate(design->circuit, design->study, o, recorder);
+  INFO(run.summary.message);
+  REQUIRE(run.summary.status == RunSummary::Status::kFailed);
+  REQUIRE(run.summary.message.find("switched 5 times") != std::string::npos);
+  REQUIRE(run.summary.message.find("chattering; consider a snubber or a larger Roff") != std::string::npos);
+  REQUIRE(run.summary.message.find("B[") != std::string::npos);
+}
+
 TEST_CASE("StressAStepLimitStopsACaseWithAMessage", "[stress]") {
   // The limits that keep every case from hanging: the run ends, failed,
   // saying which limit and where.
