@@ -1,0 +1,80 @@
+// Benchmark: how the cost grows with the pulse number. 6-, 12-, 24- and
+// 48-pulse diode rectifiers: 1, 2, 4 and 8 bridges, each behind its own
+// phase-shifting transformer (Yy0 with `shift` spaced 60°/N about zero,
+// the classic multi-pulse arrangement), DC sides in series carrying a
+// constant 1 kA, all from one 11 kV supply; rtol 1e-6, one probe at T/1024.
+// Prints, per pulse number, the unknowns, wall time per simulated second,
+// the same per bridge (flat if the cost grows linearly), steps and events
+// per cycle, and the peak resident memory of the process so far.
+//
+// Usage: bench_pulse_scaling [simulated-seconds]
+#include <fmt/format.h>
+#include <sys/resource.h>
+
+#include <cstdlib>
+#include <string>
+
+#include "engine/simulator.h"
+#include "engine/topology.h"
+#include "parser/elaborate.h"
+#include "results/recorder.h"
+
+namespace {
+
+std::string Netlist(int bridges, double seconds) {
+  std::string text = "supply G (A, B, C) Vll = 11 kV f = 50 Hz Ssc = 500 MVA xr = 12\n";
+  for (int k = 0; k < bridges; ++k) {
+    const double shift = bridges == 1 ? 0.0 : -30.0 + 60.0 / bridges * (k + 0.5);
+    const std::string top = k == 0 ? "p" : fmt::format("m{}", k);
+    const std::string bottom = k == bridges - 1 ? "n" : fmt::format("m{}", k + 1);
+    text += fmt::format(
+        "transformer T{0} hv = (A, B, C) lv = (a{0}, b{0}, c{0}) group = Yy0 S = 2 MVA V1 = 11 kV V2 = 1 kV "
+        "z = 8 % xr = 15 im = 0.5 % shift = {1} deg\n"
+        "bridge B{0} ac = (a{0}, b{0}, c{0}) dc = ({2}, {3}) Ron = 10 uohm\n",
+        k, shift, top, bottom);
+  }
+  text += fmt::format("current_source Iload (n, p) dc = 1 kA\nsimulate stop = {} s reltol = 1e-6\nprobe Vd = p - n\n",
+                      seconds);
+  return text;
+}
+
+double PeakRssMegabytes() {
+  rusage usage{};
+  getrusage(RUSAGE_SELF, &usage);
+  return usage.ru_maxrss / 1024.0;  // Linux reports kilobytes
+}
+
+}  // namespace
+
+int main(int argc, char** argv) {
+  const double seconds = argc > 1 ? std::atof(argv[1]) : 0.5;
+  fmt::print("multi-pulse rectifiers on phase-shifting transformers, {} s simulated, rtol 1e-6\n", seconds);
+  fmt::print("{:>7} {:>9} {:>12} {:>16} {:>12} {:>13} {:>10}\n", "pulses", "unknowns", "ms per s", "ms per s/bridge",
+             "steps/cycle", "events/cycle", "RSS [MB]");
+  for (int bridges : {1, 2, 4, 8}) {
+    lcc::Diagnostics diags;
+    auto design = lcc::ElaborateText("bench.lcc", Netlist(bridges, seconds), diags);
+    if (design) lcc::CheckTopology(design->circuit, diags);
+    if (diags.has_errors()) {
+      fmt::print(stderr, "{}", diags.Format());
+      return 2;
+    }
+    lcc::RunSummary best;
+    best.wall_seconds = 1e300;
+    for (int k = 0; k < 3; ++k) {
+      lcc::ProbeRecorder recorder(design->study.probes);
+      auto run = lcc::Simulate(design->circuit, design->study, {}, recorder);
+      if (run.summary.status != lcc::RunSummary::Status::kCompleted) {
+        fmt::print(stderr, "{}-pulse run failed: {}\n", 6 * bridges, run.summary.message);
+        return 1;
+      }
+      if (run.summary.wall_seconds < best.wall_seconds) best = run.summary;
+    }
+    const double cycles = seconds * 50.0;
+    const double ms_per_s = best.wall_seconds * 1e3 / seconds;
+    fmt::print("{:>7} {:>9} {:>12.1f} {:>16.1f} {:>12.0f} {:>13.1f} {:>10.1f}\n", 6 * bridges,
+               design->circuit.num_unknowns(), ms_per_s, ms_per_s / bridges, best.steps / cycles,
+               best.events / cycles, PeakRssMegabytes());
+  }
+  return 0;
+}
