@@ -14,10 +14,7 @@
 #include <cstdlib>
 #include <string>
 
-#include "engine/simulator.h"
-#include "engine/topology.h"
-#include "parser/elaborate.h"
-#include "results/recorder.h"
+#include "bench/bench_run.h"
 
 namespace {
 
@@ -52,24 +49,8 @@ int main(int argc, char** argv) {
   fmt::print("{:>7} {:>9} {:>12} {:>16} {:>12} {:>13} {:>10}\n", "pulses", "unknowns", "ms per s", "ms per s/bridge",
              "steps/cycle", "events/cycle", "RSS [MB]");
   for (int bridges : {1, 2, 4, 8}) {
-    lcc::Diagnostics diags;
-    auto design = lcc::ElaborateText("bench.lcc", Netlist(bridges, seconds), diags);
-    if (design) lcc::CheckTopology(design->circuit, diags);
-    if (diags.has_errors()) {
-      fmt::print(stderr, "{}", diags.Format());
-      return 2;
-    }
-    lcc::RunSummary best;
-    best.wall_seconds = 1e300;
-    for (int k = 0; k < 3; ++k) {
-      lcc::ProbeRecorder recorder(design->study.probes);
-      auto run = lcc::Simulate(design->circuit, design->study, {}, recorder);
-      if (run.summary.status != lcc::RunSummary::Status::kCompleted) {
-        fmt::print(stderr, "{}-pulse run failed: {}\n", 6 * bridges, run.summary.message);
-        return 1;
-      }
-      if (run.summary.wall_seconds < best.wall_seconds) best = run.summary;
-    }
+    const auto design = lcc::bench::ElaborateOrExit(Netlist(bridges, seconds));
+    const lcc::RunSummary best = lcc::bench::FastestOfThree(*design);
     const double cycles = seconds * 50.0;
     const double ms_per_s = best.wall_seconds * 1e3 / seconds;
     fmt::print("{:>7} {:>9} {:>12.1f} {:>16.1f} {:>12.0f} {:>13.1f} {:>10.1f}\n", 6 * bridges,

@@ -11,10 +11,7 @@
 #include <cstdlib>
 #include <string>
 
-#include "engine/simulator.h"
-#include "engine/topology.h"
-#include "parser/elaborate.h"
-#include "results/recorder.h"
+#include "bench/bench_run.h"
 
 int main(int argc, char** argv) {
   const double seconds = argc > 1 ? std::atof(argv[1]) : 1.0;
@@ -30,24 +27,8 @@ probe Vd = p - n
 probe IA = G.a.i
 probe Iv1 = B1[1].i
 )", seconds);
-  lcc::Diagnostics diags;
-  auto design = lcc::ElaborateText("bench.lcc", text, diags);
-  if (design) lcc::CheckTopology(design->circuit, diags);
-  if (diags.has_errors()) {
-    fmt::print(stderr, "{}", diags.Format());
-    return 2;
-  }
-  lcc::RunSummary best;
-  best.wall_seconds = 1e300;
-  for (int k = 0; k < 3; ++k) {
-    lcc::ProbeRecorder recorder(design->study.probes);
-    auto run = lcc::Simulate(design->circuit, design->study, {}, recorder);
-    if (run.summary.status != lcc::RunSummary::Status::kCompleted) {
-      fmt::print(stderr, "run failed: {}\n", run.summary.message);
-      return 1;
-    }
-    if (run.summary.wall_seconds < best.wall_seconds) best = run.summary;
-  }
+  const auto design = lcc::bench::ElaborateOrExit(text);
+  const lcc::RunSummary best = lcc::bench::FastestOfThree(*design);
   fmt::print("twelve-pulse rectifier with transformers, {} s simulated, rtol 1e-6, {} unknowns\n", seconds,
              design->circuit.num_unknowns());
   fmt::print("{:>10} {:>9} {:>8} {:>10}\n", "wall [ms]", "steps", "events", "real-time");
