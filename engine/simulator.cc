@@ -789,6 +789,14 @@ class Run {
     if (next_gate_edge_ <= t) next_gate_edge_ = NextGateEdge(t);
     double stop = std::min(t_end_, next_gate_edge_);
     if (next_action_ < actions_.size() && actions_[next_action_].t > t) stop = std::min(stop, actions_[next_action_].t);
+    // After a root return that changed nothing (a blocking thyristor's
+    // voltage turning positive) IDA is not restarted, and its own time is
+    // the end of the step that held the root, ahead of t. A PLL update can
+    // then bring the next gate edge inside that step: it is taken where IDA
+    // is (late by less than a step), since IDA refuses a stop time behind it.
+    double t_ida = t;
+    IDAGetCurrentTime(ida_.get(), &t_ida);
+    stop = std::max(stop, t_ida);
     Check(IDASetStopTime(ida_.get(), stop), "IDASetStopTime");
   }
 

@@ -135,6 +135,32 @@ probe Vd = p - n
   }
 }
 
+TEST_CASE("APhaseLockedGateEdgeInsideAStepThatHeldARootIsTakenWhereTheIntegratorIs", "[thyristor][pll]") {
+  // A regression: with long steps (4°), a PLL update after a root return
+  // that changed nothing moved the next gate edge behind the integrator's
+  // own time, and setting that stop time failed the run. The run must
+  // complete, and still fire within 1° of the ideal instants.
+  auto c = testing::Simulate(R"(
+supply Grid (a, b, c) Vll = 400 V f = 50 Hz R = 0.5 mohm L = 0.05 mH unbalance = 3 %
+firing F sync = (a, b, c) alpha = 30 deg
+bridge B1 ac = (a, b, c) dc = (p, n) valve = thyristor firing = F Ron = 1 uohm
+current_source Iload (n, p) dc = 100 A
+simulate stop = 0.5 s max_step = 222 us
+steady cycles = 2
+probe Vd = p - n
+)");
+  REQUIRE(c.run.summary.status == RunSummary::Status::kCompleted);
+  // Valve 1 fires α = 30° after its natural instant, 30° after phase a's
+  // EMF zero (the supply's phase a is a sine): 60° into the cycle.
+  for (const auto& e : c.run.events)
+    if (e.on && e.cause == SwitchEvent::Cause::kGate && e.t >= c.run.summary.window_begin &&
+        c.design->circuit.devices()[e.device]->name() == "B1[1]") {
+      double angle = std::fmod(e.t * kF * 360.0, 360.0);
+      INFO("valve 1 fired at " << angle << " deg");
+      REQUIRE(std::abs(angle - 60.0) < 1.0);
+    }
+}
+
 TEST_CASE("ATurnOffTimeLongerThanTheExtinctionIntervalCausesCommutationFailure",
           "[thyristor][inverter]") {
   // At α = 150°, Ls = 0.5 mH: γ ≈ 23°, i.e. about 1.3 ms at 50 Hz.
