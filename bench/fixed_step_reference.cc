@@ -125,19 +125,20 @@ FixedStepResult RunFixedStep(const FixedStepCircuit& c, double h, double seconds
 
   while (s.t < t_end - 0.5 * h) {
     State next = b.Step(s);
-    // The earliest diode to leave its rule within the step, by linear
-    // interpolation of its current (on) or voltage (off).
+    // Where within the step each diode leaves its rule (2: it does not),
+    // by linear interpolation of its current (on) or voltage (off).
+    std::array<double, 6> crossing{};
     double first = 2.0;
     for (int d = 0; d < 6; ++d) {
-      double frac = 2.0;
+      crossing[d] = 2.0;
       if (b.on_[d] && b.Current(d, next) < 0) {
         const double i0 = b.Current(d, s), i1 = b.Current(d, next);
-        frac = i0 > 0 ? i0 / (i0 - i1) : 0.0;
+        crossing[d] = i0 > 0 ? i0 / (i0 - i1) : 0.0;
       } else if (!b.on_[d] && b.Voltage(d, next) > 0) {
         const double v0 = b.Voltage(d, s), v1 = b.Voltage(d, next);
-        frac = v0 < 0 ? -v0 / (v1 - v0) : 0.0;
+        crossing[d] = v0 < 0 ? -v0 / (v1 - v0) : 0.0;
       }
-      first = std::min(first, frac);
+      first = std::min(first, crossing[d]);
     }
     if (first > 1.0) {
       integrate(s, next);
@@ -148,11 +149,7 @@ FixedStepResult RunFixedStep(const FixedStepCircuit& c, double h, double seconds
     const State at = Lerp(s, next, first);
     integrate(s, at);
     for (int d = 0; d < 6; ++d) {
-      const bool crosses = b.on_[d] ? b.Current(d, next) < 0 : b.Voltage(d, next) > 0;
-      if (!crosses) continue;
-      const double frac = b.on_[d] ? (b.Current(d, s) > 0 ? b.Current(d, s) / (b.Current(d, s) - b.Current(d, next)) : 0.0)
-                                   : (b.Voltage(d, s) < 0 ? -b.Voltage(d, s) / (b.Voltage(d, next) - b.Voltage(d, s)) : 0.0);
-      if (frac > first + 1e-9) continue;
+      if (crossing[d] > first + 1e-9) continue;
       b.on_[d] = !b.on_[d];
       ++switchings;
       if (at.t >= window_begin - 1.0 / c.f) {

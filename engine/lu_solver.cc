@@ -50,7 +50,11 @@ bool LuSolver::Factorize(const double* values) {
   const std::size_t bytes = sizeof(double) * static_cast<std::size_t>(sparse_.nonZeros());
   if (slot >= 0 && std::memcmp(plans_[slot].matrix.data(), values, bytes) == 0) {
     ++reused_;  // the very matrix factorised before (same switch states, same step): nothing to do
-  } else if (slot >= 0 && Refactorize(values, plans_[slot])) {
+    plans_[slot].last_used = ++clock_;
+    active_ = slot;
+    return true;
+  }
+  if (slot >= 0 && Refactorize(values, plans_[slot])) {
     ++refactored_;
   } else {
     if (slot < 0) {
