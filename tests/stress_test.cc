@@ -194,7 +194,10 @@ probe Id = Ld.i
   const WindowStats s = c.Window("Id");
   INFO("Id " << s.mean << " A, closed form " << id << " A");
   REQUIRE(std::abs(s.mean - id) / id < 0.003);
-  REQUIRE(s.max - s.min < 1e-3 * id);  // 10 H: ripple far below 0.1 %
+  // Ripple: the six-pulse voltage's 6th harmonic is about 5.7 % of Vdo
+  // (amplitude 2·Vdo/(6² − 1) with no overlap; Mohan et al. §5-6), about
+  // 31 V, across 6ωL = 18.8 kohm: some 3 mA peak to peak, 3e-5 of Id.
+  REQUIRE(s.max - s.min < 1e-3 * id);
 }
 
 TEST_CASE("StressLightLoadGivesVdo", "[stress]") {
