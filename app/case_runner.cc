@@ -157,7 +157,7 @@ CaseRunResult RunCaseUnwritten(const CaseRunOptions& o, const CaseInstance& c) {
 
     const Study& study = design->study;
     const AnalysisChannels channels = BuildAnalysisChannels(circuit);
-    const auto recorder_ptr = RecorderFor(study, channels);
+    const auto recorder_ptr = RecorderFor(study, channels, {o.waveform_memory_bytes, o.out_dir});
     CaseRecorder& recorder = *recorder_ptr;
     if (!c.timed.empty()) recorder.SetFaultTime(c.timed.front().t);
     bool ratings = false;
@@ -173,8 +173,10 @@ CaseRunResult RunCaseUnwritten(const CaseRunOptions& o, const CaseInstance& c) {
       result.interrupted = true;
       return result;
     }
+    std::vector<std::string> notes = topology.notes;
+    if (!recorder.probes().spool_error().empty()) notes.push_back(recorder.probes().spool_error());
     CaseAnalysis analysis =
-        Analyse({c.name, o.netlist, c.index, c.folder, topology.notes, &circuit, &study, &recorder, &run});
+        Analyse({c.name, o.netlist, c.index, c.folder, notes, &circuit, &study, &recorder, &run});
 
     const fs::path dir = fs::path(o.out_dir) / c.folder;
     fs::create_directories(dir);

@@ -6,6 +6,7 @@
 // reason, and the others go on.
 #pragma once
 
+#include <cstddef>
 #include <set>
 #include <string>
 
@@ -27,6 +28,9 @@ struct CaseRunOptions {
   std::string out_dir;
   EngineOptions engine;
   std::set<std::string> formats;
+  // Probe rows held in memory before they go to a spool file in out_dir
+  // (results/recorder.h): bounds a case's memory whatever its duration.
+  std::size_t waveform_memory_bytes = 4'000'000;
 };
 
 struct CaseRunResult {

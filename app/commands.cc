@@ -107,7 +107,8 @@ int RunCommand(const RunCommandOptions& options, std::ostream& out, std::ostream
   std::vector<CaseInstance> cases;
   for (auto& c : ExpandCases(design->batch))
     if (c.index % options.shard_count == options.shard_index) cases.push_back(std::move(c));
-  CaseRunOptions run_options{options.netlist, options.out_dir, options.engine, options.formats};
+  CaseRunOptions run_options{options.netlist, options.out_dir, options.engine, options.formats,
+                             static_cast<std::size_t>(options.waveform_memory_bytes)};
 
   // Cases already complete (--resume) are read back, not run.
   std::vector<std::optional<CaseRunResult>> results(cases.size());

@@ -38,6 +38,9 @@ struct RunCommandOptions {
   bool overwrite = false;
   // Largest waveform output a batch may write, estimated before it runs.
   std::uint64_t max_output_bytes = 2'000'000'000;
+  // Probe samples a case holds in memory before they go to a spool file in
+  // OUT (results/recorder.h); 0 keeps the whole run in memory.
+  std::uint64_t waveform_memory_bytes = 4'000'000;
 };
 
 // Runs every case of the netlist (its cases × sweep points), `jobs` at a

@@ -50,6 +50,10 @@ static int Main(int argc, char** argv) {
   run->add_option("--max-output", max_output,
                   "refuse a batch whose waveforms would exceed this size, estimated before it runs (e.g. 500 MB)")
       ->capture_default_str();
+  std::string waveform_memory = "4 MB";
+  run->add_option("--waveform-memory", waveform_memory,
+                  "probe samples each case holds in memory before they go to a spool file in OUT (0: all in memory)")
+      ->capture_default_str();
 
   std::string report_dir;
   auto* report = app.add_subcommand("report", "print the report of a finished case again, without simulating");
@@ -93,6 +97,10 @@ static int Main(int argc, char** argv) {
       }
       if (!lcc::ParseByteSize(max_output, &run_options.max_output_bytes)) {
         std::cerr << "lccsim: error: --max-output takes a size such as 2 GB, 500 MB or 1e9\n";
+        return lcc::kExitInputError;
+      }
+      if (!lcc::ParseByteSize(waveform_memory, &run_options.waveform_memory_bytes)) {
+        std::cerr << "lccsim: error: --waveform-memory takes a size such as 4 MB, 500 kB or 0\n";
         return lcc::kExitInputError;
       }
       run_options.progress = isatty(STDERR_FILENO);

@@ -53,7 +53,7 @@ simulate stop = {} s reltol = 1e-6
   Measured m;
   m.summary = run.summary;
   if (with_probes) {
-    m.vd = lcc::Measure(recorder.time(), recorder.columns()[0], run.summary.window_begin, run.summary.window_end).mean;
+    m.vd = lcc::Measure(recorder.Time(), recorder.Column(0), run.summary.window_begin, run.summary.window_end).mean;
     auto list = lcc::BridgeCommutations(design->circuit.valve_groups()[0], run.events, 50.0,
                                         run.summary.window_begin - 0.02, run.summary.window_end);
     double sum = 0;

@@ -373,6 +373,52 @@ Stats StatsOf(const WindowStats& w, std::string unit) {
           w.max,           w.ripple_pp(), w.ripple_rms(), w.ripple_factor(), w.form_factor()};
 }
 
+namespace {
+
+// The probes' figures over the window, and each firing element's final
+// delay angle and, for a regulator, its mean and settling time: one pass
+// over the recorded rows (which may come back from the spool, see
+// results/recorder.h).
+void ProbeAndFiringFigures(const AnalysisInput& in, CaseAnalysis* a) {
+  const ProbeRecorder& rec = in.recorder->probes();
+  const RunSummary& s = in.run->summary;
+  const std::size_t n = rec.probes().size();
+  const auto& firings = in.circuit->firings();
+  std::vector<WindowAccumulator> window(n);
+  std::vector<SettlingTracker> settling;
+  std::vector<int> regulated;  // probe index per firing, -1: none
+  const auto per_period =
+      s.period > 0 && s.sample_used > 0 ? static_cast<std::size_t>(std::llround(s.period / s.sample_used)) : 0;
+  for (const Firing& fr : firings) {
+    const bool tracked = fr.regulate_probe >= 0 && static_cast<std::size_t>(fr.regulate_probe) < n;
+    regulated.push_back(tracked ? fr.regulate_probe : -1);
+    settling.emplace_back(fr.target, 0.01, tracked ? per_period : 0);
+  }
+  rec.ForEachRow([&](const double* row) {
+    if (InWindow(row[0], s.window_begin, s.window_end, s.sample_used))
+      for (std::size_t k = 0; k < n; ++k) window[k].Add(row[k + 1]);
+    for (std::size_t f = 0; f < regulated.size(); ++f)
+      if (regulated[f] >= 0) settling[f].Add(row[0], row[regulated[f] + 1]);
+  });
+  for (std::size_t k = 0; k < n; ++k)
+    a->probes.push_back({rec.probes()[k].name, StatsOf(window[k].Result(), rec.probes()[k].unit())});
+  for (std::size_t f = 0; f < firings.size(); ++f) {
+    FiringFigures ff;
+    ff.name = firings[f].name;
+    ff.alpha_end_deg = (f < in.run->final_alpha.size() ? in.run->final_alpha[f] : firings[f].alpha) * kDeg;
+    if (regulated[f] >= 0) {
+      ff.regulates = firings[f].regulate;
+      ff.target_A = firings[f].target;
+      ff.mean_A = window[regulated[f]].Result().mean;
+      ff.error_pct = ff.target_A != 0 ? 100.0 * (ff.mean_A - ff.target_A) / ff.target_A : 0.0;
+      ff.settling_s = s.period > 0 ? settling[f].Result() : -1.0;
+    }
+    a->firings.push_back(ff);
+  }
+}
+
+}  // namespace
+
 CaseAnalysis Analyse(const AnalysisInput& in) {
   const auto start = std::chrono::steady_clock::now();
   CaseAnalysis a;
@@ -388,29 +434,8 @@ CaseAnalysis Analyse(const AnalysisInput& in) {
   a.frequency_Hz = s.period > 0 ? 1.0 / s.period : 0.0;
   a.window_cycles = s.period > 0 ? static_cast<int>(std::floor((s.window_end - s.window_begin) / s.period + 1e-6)) : 0;
 
-  const ProbeRecorder& rec = in.recorder->probes();
-  for (std::size_t k = 0; k < rec.probes().size(); ++k)
-    a.probes.push_back({rec.probes()[k].name, StatsOf(Measure(rec.time(), rec.columns()[k], s.window_begin,
-                                                              s.window_end),
-                                                      rec.probes()[k].unit())});
   WindowAnalysis(in, &a).Run();
-
-  const auto& firings = in.circuit->firings();
-  for (std::size_t f = 0; f < firings.size(); ++f) {
-    const Firing& fr = firings[f];
-    FiringFigures ff;
-    ff.name = fr.name;
-    ff.alpha_end_deg = (f < in.run->final_alpha.size() ? in.run->final_alpha[f] : fr.alpha) * kDeg;
-    if (fr.regulate_probe >= 0) {
-      const auto& column = rec.columns()[fr.regulate_probe];
-      ff.regulates = fr.regulate;
-      ff.target_A = fr.target;
-      ff.mean_A = Measure(rec.time(), column, s.window_begin, s.window_end).mean;
-      ff.error_pct = fr.target != 0 ? 100.0 * (ff.mean_A - fr.target) / fr.target : 0.0;
-      ff.settling_s = s.period > 0 ? SettlingTime(rec.time(), column, fr.target, 0.01, s.period) : -1.0;
-    }
-    a.firings.push_back(ff);
-  }
+  ProbeAndFiringFigures(in, &a);
   FaultAndRatings(in, &a);
   a.analysis_wall_s = std::chrono::duration<double>(std::chrono::steady_clock::now() - start).count();
   return a;

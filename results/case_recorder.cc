@@ -2,12 +2,13 @@
 
 #include <algorithm>
 #include <cmath>
+#include <utility>
 
 namespace lcc {
 
 CaseRecorder::CaseRecorder(const std::vector<Probe>& probes, const AnalysisChannels& channels, double keep,
-                           double sample, double from, double to)
-    : probes_(probes), channels_(channels), width_(static_cast<int>(channels.channels.size())),
+                           double sample, double from, double to, RecorderOptions probes_options)
+    : probes_(probes, std::move(probes_options)), channels_(channels), width_(static_cast<int>(channels.channels.size())),
       from_(from), to_(to), half_(0.5 * sample), sample_(sample) {
   extremes_.assign(width_, {});
   const double span = to > from ? to - from : keep;
@@ -67,7 +68,8 @@ CaseRecorder::Window CaseRecorder::Extract(double begin, double end) {
   return w;
 }
 
-std::unique_ptr<CaseRecorder> RecorderFor(const Study& study, const AnalysisChannels& channels) {
+std::unique_ptr<CaseRecorder> RecorderFor(const Study& study, const AnalysisChannels& channels,
+                                          const RecorderOptions& probes_options) {
   const double f = RunFrequency(study);
   const double sample = OutputInterval(study);
   const double stop = study.simulate ? study.simulate->stop : 0.0;
@@ -82,7 +84,7 @@ std::unique_ptr<CaseRecorder> RecorderFor(const Study& study, const AnalysisChan
     from = std::max(0.0, stop - keep);
     to = stop;
   }
-  return std::make_unique<CaseRecorder>(study.probes, channels, keep, sample, from, to);
+  return std::make_unique<CaseRecorder>(study.probes, channels, keep, sample, from, to, probes_options);
 }
 
 }  // namespace lcc

@@ -1,5 +1,6 @@
 // Records one case: every probe over the whole run (for waveforms.csv and
-// COMTRADE), and the analysis channels (results/channels.h) over the
+// COMTRADE; spooled to disk as results/recorder.h says), and the analysis
+// channels (results/channels.h) over the
 // analysis window only.
 //
 // The window is known only at the end of a steady run, so the channels go
@@ -21,9 +22,10 @@ namespace lcc {
 class CaseRecorder final : public SampleSink {
  public:
   // keep: seconds of channel history to hold (the window's length, plus a
-  // margin); from/to: a chosen window instead (to > from).
+  // margin); from/to: a chosen window instead (to > from); probes: how the
+  // probe rows are kept.
   CaseRecorder(const std::vector<Probe>& probes, const AnalysisChannels& channels, double keep, double sample,
-               double from = 0.0, double to = 0.0);
+               double from = 0.0, double to = 0.0, RecorderOptions probes_options = {});
 
   bool wants_derivatives() const override { return probes_.wants_derivatives(); }
   void OnSample(double t, const double* y, const double* yp) override;
@@ -77,6 +79,7 @@ class CaseRecorder final : public SampleSink {
 // A recorder sized for `study`'s analysis window: the chosen `window`; the
 // last cycles before stop when the run does not wait for steady state; else
 // a ring holding the last `cycles` cycles of a steady run.
-std::unique_ptr<CaseRecorder> RecorderFor(const Study& study, const AnalysisChannels& channels);
+std::unique_ptr<CaseRecorder> RecorderFor(const Study& study, const AnalysisChannels& channels,
+                                          const RecorderOptions& probes_options = {});
 
 }  // namespace lcc

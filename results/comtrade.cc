@@ -25,17 +25,12 @@ struct Scale {
   long min = 0, max = 0;
 };
 
-Scale ScaleOf(const std::vector<double>& x) {
-  double lo = INFINITY, hi = -INFINITY;
-  for (double v : x)
-    if (std::isfinite(v)) {
-      lo = std::min(lo, v);
-      hi = std::max(hi, v);
-    }
+// Offset and factor that map the finite range [lo, hi] onto ±kSpan.
+Scale ScaleOf(const ProbeRecorder::Range& r) {
   Scale s;
-  if (!(lo <= hi)) return s;  // no finite sample
-  s.b = 0.5 * (lo + hi);
-  s.a = hi > lo ? (hi - lo) / (2.0 * kSpan) : 1.0;
+  if (!r.any) return s;  // no finite sample
+  s.b = 0.5 * (r.min + r.max);
+  s.a = r.max > r.min ? (r.max - r.min) / (2.0 * kSpan) : 1.0;
   return s;
 }
 
@@ -48,24 +43,14 @@ long Quantise(double v, const Scale& s) {
 
 void WriteComtrade(const std::string& base, const ComtradeHeader& h, const ProbeRecorder& rec) {
   const auto& probes = rec.probes();
-  const auto& cols = rec.columns();
-  const auto& t = rec.time();
+  // min and max fields: the range of the integers written, which are the
+  // extremes' images (quantising is monotonic).
   std::vector<Scale> scales;
-  scales.reserve(cols.size());
-  for (const auto& c : cols) scales.push_back(ScaleOf(c));
-  // min and max fields: the range of the integers actually written.
-  for (std::size_t k = 0; k < cols.size(); ++k) {
-    long lo = 0, hi = 0;
-    bool first = true;
-    for (double v : cols[k]) {
-      const long x = Quantise(v, scales[k]);
-      if (x == kMissing) continue;
-      lo = first ? x : std::min(lo, x);
-      hi = first ? x : std::max(hi, x);
-      first = false;
-    }
-    scales[k].min = lo;
-    scales[k].max = hi;
+  scales.reserve(probes.size());
+  for (const auto& r : rec.ranges()) {
+    Scale s = ScaleOf(r);
+    if (r.any) s.min = Quantise(r.min, s), s.max = Quantise(r.max, s);
+    scales.push_back(s);
   }
 
   std::string cfg;
@@ -78,22 +63,23 @@ void WriteComtrade(const std::string& base, const ComtradeHeader& h, const Probe
                      scales[k].max));
   line(fmt::format("{:g}", h.line_frequency));
   line("1");
-  line(fmt::format("{:.9g},{}", h.sample_interval > 0 ? 1.0 / h.sample_interval : 0.0, t.size()));
+  line(fmt::format("{:.9g},{}", h.sample_interval > 0 ? 1.0 / h.sample_interval : 0.0, rec.rows()));
   line("01/01/2000,00:00:00.000000");
   line("01/01/2000,00:00:00.000000");
   line("ASCII");
   line("1");
 
   AtomicFile dat(base + ".dat");
-  std::string row;
-  for (std::size_t n = 0; n < t.size(); ++n) {
-    row.clear();
-    fmt::format_to(std::back_inserter(row), "{},{}", n + 1, std::llround(t[n] * 1e6));
-    for (std::size_t k = 0; k < cols.size(); ++k)
-      fmt::format_to(std::back_inserter(row), ",{}", Quantise(cols[k][n], scales[k]));
-    row += "\r\n";
-    dat.stream() << row;
-  }
+  std::string line_text;
+  std::size_t n = 0;
+  rec.ForEachRow([&](const double* row) {
+    line_text.clear();
+    fmt::format_to(std::back_inserter(line_text), "{},{}", ++n, std::llround(row[0] * 1e6));
+    for (std::size_t k = 0; k < scales.size(); ++k)
+      fmt::format_to(std::back_inserter(line_text), ",{}", Quantise(row[k + 1], scales[k]));
+    line_text += "\r\n";
+    dat.stream() << line_text;
+  });
   dat.Commit();
   WriteFileAtomically(base + ".cfg", cfg);
 }

@@ -44,7 +44,6 @@ std::vector<double> Ticks(double lo, double hi, int n) {
 }  // namespace
 
 std::string RenderWaveformsSvg(const ProbeRecorder& rec, const PlotOptions& o) {
-  const auto& time = rec.time();
   const auto& probes = rec.probes();
   // Panels by unit, in order of first appearance.
   std::vector<std::string> units;
@@ -54,14 +53,9 @@ std::string RenderWaveformsSvg(const ProbeRecorder& rec, const PlotOptions& o) {
     if (!members.count(u)) units.push_back(u);
     members[u].push_back(k);
   }
-  std::size_t first = 0, last = 0;
-  for (std::size_t i = 0; i < time.size(); ++i) {
-    if (time[i] < o.begin) first = i + 1;
-    if (time[i] <= o.end) last = i + 1;
-  }
   const double t0 = o.begin, t1 = o.end > o.begin ? o.end : o.begin + 1.0;
   const int left = 90, right = 180, top = 50, gap = 60;
-  const int plot_w = o.width - left - right;
+  const int plot_w = std::max(o.width - left - right, 1);
   const int height = top + static_cast<int>(units.size()) * (o.panel_height + gap) + 10;
   std::string s;
   s += fmt::format("<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n"
@@ -74,16 +68,35 @@ std::string RenderWaveformsSvg(const ProbeRecorder& rec, const PlotOptions& o) {
   const std::vector<double> xticks = Ticks(t0 * 1e3, t1 * 1e3, 8);
   auto X = [&](double t) { return left + (t - t0) / (t1 - t0) * plot_w; };
 
+  // One pass over the rows thins each probe to its minimum and maximum per
+  // pixel column (with their instants) inside [begin, end]; the panels'
+  // ranges and the polylines are drawn from these.
+  struct Bin {
+    double vmin = 0, vmax = 0, tmin = 0, tmax = 0;
+    bool seen = false;
+  };
+  std::vector<std::vector<Bin>> bins(probes.size(), std::vector<Bin>(static_cast<std::size_t>(plot_w) + 1));
+  rec.ForEachRow([&](const double* row) {
+    const double t = row[0];
+    if (t < o.begin || t > o.end) return;
+    const auto c = static_cast<std::size_t>(std::clamp(static_cast<int>(X(t)) - left, 0, plot_w));
+    for (std::size_t k = 0; k < probes.size(); ++k) {
+      const double x = row[k + 1];
+      if (!std::isfinite(x)) continue;
+      Bin& b = bins[k][c];
+      if (!b.seen) b = {x, x, t, t, true};
+      if (x < b.vmin) b.vmin = x, b.tmin = t;
+      if (x > b.vmax) b.vmax = x, b.tmax = t;
+    }
+  });
+
   for (std::size_t p = 0; p < units.size(); ++p) {
     const int y_top = top + static_cast<int>(p) * (o.panel_height + gap);
     const int h = o.panel_height;
     double lo = INFINITY, hi = -INFINITY;
     for (std::size_t k : members[units[p]])
-      for (std::size_t i = first; i < last; ++i)
-        if (std::isfinite(rec.columns()[k][i])) {
-          lo = std::min(lo, rec.columns()[k][i]);
-          hi = std::max(hi, rec.columns()[k][i]);
-        }
+      for (const Bin& b : bins[k])
+        if (b.seen) lo = std::min(lo, b.vmin), hi = std::max(hi, b.vmax);
     if (!(lo <= hi)) lo = -1, hi = 1;
     if (hi - lo < 1e-12 * std::max(1.0, std::abs(hi))) lo -= 1, hi += 1;
     const double pad = 0.05 * (hi - lo);
@@ -111,31 +124,15 @@ std::string RenderWaveformsSvg(const ProbeRecorder& rec, const PlotOptions& o) {
     int legend_row = 0;
     for (std::size_t k : members[units[p]]) {
       const char* colour = kColours[k % (sizeof(kColours) / sizeof(kColours[0]))];
-      // Thin to the minimum and maximum per pixel column.
+      // Each pixel column's extremes, in time order.
       std::string points;
-      const auto& x = rec.columns()[k];
-      int column = -1;
-      double cmin = 0, cmax = 0, tmin = 0, tmax = 0;
-      auto flush = [&] {
-        if (column < 0) return;
-        const auto [ta, va, tb, vb] = tmin <= tmax ? std::tuple{tmin, cmin, tmax, cmax} : std::tuple{tmax, cmax, tmin, cmin};
+      for (const Bin& b : bins[k]) {
+        if (!b.seen) continue;
+        const auto [ta, va, tb, vb] =
+            b.tmin <= b.tmax ? std::tuple{b.tmin, b.vmin, b.tmax, b.vmax} : std::tuple{b.tmax, b.vmax, b.tmin, b.vmin};
         points += fmt::format("{:.1f},{:.1f} ", X(ta), Y(va));
         if (tb != ta) points += fmt::format("{:.1f},{:.1f} ", X(tb), Y(vb));
-      };
-      for (std::size_t i = first; i < last; ++i) {
-        if (!std::isfinite(x[i])) continue;
-        const int c = static_cast<int>(X(time[i]));
-        if (c != column) {
-          flush();
-          column = c;
-          cmin = cmax = x[i];
-          tmin = tmax = time[i];
-        } else {
-          if (x[i] < cmin) cmin = x[i], tmin = time[i];
-          if (x[i] > cmax) cmax = x[i], tmax = time[i];
-        }
       }
-      flush();
       s += fmt::format("<polyline fill=\"none\" stroke=\"{}\" stroke-width=\"1.3\" points=\"{}\"/>\n", colour, points);
       const int ly = y_top + 14 + 18 * legend_row++;
       s += fmt::format("<line x1=\"{0}\" x2=\"{1}\" y1=\"{2}\" y2=\"{2}\" stroke=\"{3}\" stroke-width=\"2.5\"/>\n",

@@ -91,16 +91,15 @@ void WriteWaveformsCsv(const std::string& path, const ProbeRecorder& recorder) {
   out << "time [s]";
   for (const auto& p : recorder.probes()) out << ',' << p.name << " [" << p.unit() << ']';
   out << '\n';
-  const auto& t = recorder.time();
-  const auto& cols = recorder.columns();
+  const std::size_t probes = recorder.probes().size();
   std::string line;
-  for (std::size_t k = 0; k < t.size(); ++k) {
+  recorder.ForEachRow([&](const double* row) {
     line.clear();
-    fmt::format_to(std::back_inserter(line), "{:.9g}", t[k]);
-    for (const auto& c : cols) fmt::format_to(std::back_inserter(line), ",{:.9g}", c[k]);
+    fmt::format_to(std::back_inserter(line), "{:.9g}", row[0]);
+    for (std::size_t k = 1; k <= probes; ++k) fmt::format_to(std::back_inserter(line), ",{:.9g}", row[k]);
     line.push_back('\n');
     out << line;
-  }
+  });
   file.Commit();
 }
 

@@ -47,7 +47,7 @@ steady cycles = 2
   const double mean = c.Window("Ia").mean;
   INFO("armature current " << mean << " A, delay angle " << c.run.final_alpha[0] * 180 / M_PI << " deg");
   REQUIRE(std::abs(mean - 200.0) < 0.01 * 200.0);
-  const double settle = SettlingTime(c.recorder->time(), c.Column("Ia"), 200.0, 0.01, 0.02);
+  const double settle = SettlingTime(c.time, c.Column("Ia"), 200.0, 0.01, 0.02);
   REQUIRE(settle > 0);
   REQUIRE(settle < c.run.summary.steady_time);
   // The delay it settles at satisfies Vd = Eb + R·Id for the closed form

@@ -23,7 +23,7 @@ probe vc = C.v
 probe ic = C.i
 )");
   const double tau = 1e3 * 1e-6;
-  const auto& t = c.recorder->time();
+  const auto& t = c.time;
   const auto& vc = c.Column("vc");
   const auto& ic = c.Column("ic");
   REQUIRE(t.size() == 501);
@@ -44,7 +44,7 @@ simulate stop = 50 ms sample = 100 us reltol = 1e-7
 probe iL = L.i
 )");
   const double tau = 10e-3 / 2.0;
-  const auto& t = c.recorder->time();
+  const auto& t = c.time;
   const auto& i = c.Column("iL");
   for (std::size_t k = 0; k < t.size(); ++k) {
     const double expected = 5.0 * (1.0 - std::exp(-t[k] / tau));
@@ -60,7 +60,7 @@ resistor R (x, gnd) R = 100 ohm
 simulate stop = 5 ms sample = 50 us reltol = 1e-7
 probe v = x
 )");
-  const auto& t = c.recorder->time();
+  const auto& t = c.time;
   const auto& v = c.Column("v");
   for (std::size_t k = 0; k < t.size(); ++k)
     REQUIRE(std::abs(v[k] - 50.0 * std::exp(-t[k] / 1e-3)) <= kRelativeError * 50.0);

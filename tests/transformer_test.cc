@@ -133,7 +133,7 @@ probe IA = T.A.i
   // No zero intervals: apart from the brief reversals (overlap of a few
   // degrees at z = 0.5 %), |i| stays at level 1 or above. A star-star
   // transformer would spend a third of the cycle at zero.
-  const auto& t = c.recorder->time();
+  const auto& t = c.time;
   const auto& i = c.Column("IA");
   int near_zero = 0, total = 0;
   for (std::size_t k = 0; k < t.size(); ++k) {

@@ -17,11 +17,11 @@ int SimulatedCase::ProbeIndex(const std::string& name) const {
 }
 
 const std::vector<double>& SimulatedCase::Column(const std::string& name) const {
-  return recorder->columns()[ProbeIndex(name)];
+  return columns[ProbeIndex(name)];
 }
 
 WindowStats SimulatedCase::Window(const std::string& name) const {
-  return Measure(recorder->time(), Column(name), run.summary.window_begin, run.summary.window_end);
+  return Measure(time, Column(name), run.summary.window_begin, run.summary.window_end);
 }
 
 double SimulatedCase::SwitchTime(const std::string& name, bool on, int n) const {
@@ -33,7 +33,7 @@ double SimulatedCase::SwitchTime(const std::string& name, bool on, int n) const 
 }
 
 std::complex<double> Harmonic(const SimulatedCase& c, const std::string& probe, double f, int h) {
-  const auto& t = c.recorder->time();
+  const auto& t = c.time;
   const auto& x = c.Column(probe);
   std::complex<double> sum = 0;
   int count = 0;
@@ -58,6 +58,8 @@ SimulatedCase Simulate(const std::string& text, const EngineOptions& options) {
   c.run = lcc::Simulate(c.design->circuit, c.design->study, options, *c.recorder);
   INFO(c.run.summary.FullReport());
   REQUIRE(c.run.summary.status == RunSummary::Status::kCompleted);
+  c.time = c.recorder->Time();
+  for (std::size_t k = 0; k < c.design->study.probes.size(); ++k) c.columns.push_back(c.recorder->Column(static_cast<int>(k)));
   return c;
 }
 

@@ -19,6 +19,9 @@ struct SimulatedCase {
   std::unique_ptr<Design> design;
   std::unique_ptr<ProbeRecorder> recorder;
   RunResult run;
+  // The whole run, read out of the recorder once: time, and each probe.
+  std::vector<double> time;
+  std::vector<std::vector<double>> columns;
   std::string diagnostics;
 
   // Index of a probe by name (throws if absent).
