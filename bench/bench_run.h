@@ -1,10 +1,13 @@
 // What the benchmarks share: netlist text elaborated and checked (the
 // process exits with code 2 and the diagnostics if it does not elaborate),
-// and the fastest of three runs of a design (exit code 1 if one fails).
+// the fastest of three runs of a design (exit code 1 if one fails), with or
+// without the report's analysis, and the process's peak RSS.
 #pragma once
 
 #include <fmt/format.h>
 
+#include <algorithm>
+#include <cmath>
 #include <cstdlib>
 #include <memory>
 #include <string>
@@ -12,6 +15,11 @@
 #include "engine/simulator.h"
 #include "engine/topology.h"
 #include "parser/elaborate.h"
+#include <sys/resource.h>
+
+#include "results/analysis.h"
+#include "results/case_recorder.h"
+#include "results/channels.h"
 #include "results/recorder.h"
 
 namespace lcc::bench {
@@ -40,6 +48,55 @@ inline RunSummary FastestOfThree(const Design& design) {
     if (run.summary.wall_seconds < best.wall_seconds) best = run.summary;
   }
   return best;
+}
+
+// A run analysed as `lccsim run` analyses it: the bridges' Vd and overlap
+// beside their closed forms (results/analysis.h).
+struct AnalysedRun {
+  RunSummary summary;
+  CaseAnalysis analysis;
+};
+
+// The fastest of three by the simulation's wall time (the analysis is not
+// timed); exit code 1 if a run fails.
+inline AnalysedRun FastestAnalysedOfThree(const Design& design) {
+  AnalysedRun best;
+  best.summary.wall_seconds = 1e300;
+  const AnalysisChannels channels = BuildAnalysisChannels(design.circuit);
+  for (int k = 0; k < 3; ++k) {
+    const auto recorder = RecorderFor(design.study, channels);
+    auto run = Simulate(design.circuit, design.study, {}, *recorder);
+    if (run.summary.status != RunSummary::Status::kCompleted) {
+      fmt::print(stderr, "run failed: {}\n", run.summary.message);
+      std::exit(1);
+    }
+    if (run.summary.wall_seconds < best.summary.wall_seconds) {
+      best.summary = run.summary;
+      best.analysis = Analyse({"bench", "bench.lcc", 0, "bench", {}, &design.circuit, &design.study, recorder.get(), &run});
+    }
+  }
+  return best;
+}
+
+// The largest |Vd − closed form| in % and |overlap − closed form| in degrees
+// over the bridges (−1 where no bridge has the figure).
+struct ClosedFormErrors {
+  double vd_pct = -1, overlap_deg = -1;
+};
+inline ClosedFormErrors WorstClosedFormErrors(const CaseAnalysis& a) {
+  ClosedFormErrors e;
+  for (const auto& b : a.bridges) {
+    if (b.vd_closed_form_V != 0) e.vd_pct = std::max(e.vd_pct, std::abs(b.vd_difference_pct));
+    if (b.overlap_deg >= 0 && b.overlap_closed_form_deg >= 0)
+      e.overlap_deg = std::max(e.overlap_deg, std::abs(b.overlap_deg - b.overlap_closed_form_deg));
+  }
+  return e;
+}
+
+inline double PeakRssMegabytes() {
+  rusage usage{};
+  getrusage(RUSAGE_SELF, &usage);
+  return static_cast<double>(usage.ru_maxrss) / 1024.0;  // Linux reports kilobytes
 }
 
 }  // namespace lcc::bench

@@ -5,7 +5,10 @@
 // constant 1 kA, all from one 11 kV supply; rtol 1e-6, one probe at T/1024.
 // Prints, per pulse number, the unknowns, wall time per simulated second,
 // the same per bridge (flat if the cost grows linearly), steps and events
-// per cycle, and the peak resident memory of the process so far.
+// per cycle, the peak resident memory of the process so far, and the worst
+// bridge's Vd and overlap against the per-bridge closed forms (which take
+// each bridge alone behind its Thevenin commutating inductance: the
+// bridges' coupling through the shared supply is outside them).
 //
 // Usage: bench_pulse_scaling [simulated-seconds]
 #include <fmt/format.h>
@@ -35,27 +38,23 @@ std::string Netlist(int bridges, double seconds) {
   return text;
 }
 
-double PeakRssMegabytes() {
-  rusage usage{};
-  getrusage(RUSAGE_SELF, &usage);
-  return usage.ru_maxrss / 1024.0;  // Linux reports kilobytes
-}
-
 }  // namespace
 
 int main(int argc, char** argv) {
   const double seconds = argc > 1 ? std::atof(argv[1]) : 0.5;
   fmt::print("multi-pulse rectifiers on phase-shifting transformers, {} s simulated, rtol 1e-6\n", seconds);
-  fmt::print("{:>7} {:>9} {:>12} {:>16} {:>12} {:>13} {:>10}\n", "pulses", "unknowns", "ms per s", "ms per s/bridge",
-             "steps/cycle", "events/cycle", "RSS [MB]");
+  fmt::print("{:>7} {:>9} {:>12} {:>16} {:>12} {:>13} {:>10} {:>11} {:>12}\n", "pulses", "unknowns", "ms per s",
+             "ms per s/bridge", "steps/cycle", "events/cycle", "RSS [MB]", "Vd err [%]", "mu err [deg]");
   for (int bridges : {1, 2, 4, 8}) {
     const auto design = lcc::bench::ElaborateOrExit(Netlist(bridges, seconds));
-    const lcc::RunSummary best = lcc::bench::FastestOfThree(*design);
+    const auto analysed = lcc::bench::FastestAnalysedOfThree(*design);
+    const lcc::RunSummary& best = analysed.summary;
+    const auto errors = lcc::bench::WorstClosedFormErrors(analysed.analysis);
     const double cycles = seconds * 50.0;
     const double ms_per_s = best.wall_seconds * 1e3 / seconds;
-    fmt::print("{:>7} {:>9} {:>12.1f} {:>16.1f} {:>12.0f} {:>13.1f} {:>10.1f}\n", 6 * bridges,
+    fmt::print("{:>7} {:>9} {:>12.1f} {:>16.1f} {:>12.0f} {:>13.1f} {:>10.1f} {:>11.4f} {:>12.4f}\n", 6 * bridges,
                design->circuit.num_unknowns(), ms_per_s, ms_per_s / bridges, best.steps / cycles,
-               best.events / cycles, PeakRssMegabytes());
+               best.events / cycles, lcc::bench::PeakRssMegabytes(), errors.vd_pct, errors.overlap_deg);
   }
   return 0;
 }

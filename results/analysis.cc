@@ -136,6 +136,35 @@ class WindowAnalysis {
     return total;
   }
 
+  // The delay angle in effect over the window, for the closed forms: the
+  // mean delay of the gate turn-ons in the window after their valves'
+  // natural instants. A regulator moves alpha pulse by pulse, so its last
+  // value alone can be a few tenths of a degree off the window's. The final
+  // alpha where nothing was fired in the window, or under a PLL (whose
+  // frame moves); 0 for diodes.
+  double WindowDelay(const ValveGroup& g) const {
+    const auto& alphas = in_.run->final_alpha;
+    if (g.firing < 0 || g.firing >= static_cast<int>(alphas.size())) return 0.0;
+    const double last = alphas[g.firing];
+    const auto& refs = in_.run->firing_reference;
+    if (period_ <= 0 || g.firing >= static_cast<int>(refs.size()) || in_.circuit->firings()[g.firing].measured_sync())
+      return last;
+    const double b = in_.run->summary.window_begin, e = in_.run->summary.window_end;
+    double sum = 0.0;
+    int count = 0;
+    for (const auto& ev : in_.run->events) {
+      if (ev.t < b || ev.t >= e || !ev.on || ev.cause != SwitchEvent::Cause::kGate) continue;
+      const auto v = std::find(g.devices.begin(), g.devices.end(), ev.device) - g.devices.begin();
+      if (v >= static_cast<long>(g.devices.size())) continue;
+      // Valve v + 1's natural instant is (v/6) of a period after valve 1's;
+      // the delay is taken nearest the last alpha, so no wrap can bite.
+      const double delay = omega_ * (ev.t - refs[g.firing] - static_cast<double>(v) * period_ / 6.0);
+      sum += last + std::remainder(delay - last, 2 * std::numbers::pi);
+      ++count;
+    }
+    return count > 0 ? sum / count : last;
+  }
+
   BridgeFigures Bridge(const BridgeChannels& bc) {
     const Circuit& c = *in_.circuit;
     const ValveGroup& g = c.valve_groups()[bc.group];
@@ -154,8 +183,7 @@ class WindowAnalysis {
           f.ripple_order = h;
         }
     }
-    const auto& alphas = in_.run->final_alpha;
-    const double alpha = g.firing >= 0 && g.firing < static_cast<int>(alphas.size()) ? alphas[g.firing] : 0.0;
+    const double alpha = WindowDelay(g);
     f.alpha_deg = alpha * kDeg;
 
     const double frequency = period_ > 0 ? 1.0 / period_ : 0.0;

@@ -51,7 +51,7 @@ struct BridgeFigures {
   double pd_W = 0;                  // mean of vd·id
   int ripple_order = 0;             // harmonic (of the fundamental) with the largest DC ripple
   double ripple_order_rms_V = 0;
-  double alpha_deg = 0;             // delay angle (0 for diodes)
+  double alpha_deg = 0;             // delay angle: mean over the window's gate turn-ons (0 for diodes)
   // Closed forms (check values §1.1, §2.1, §2.2) with the commutating
   // inductance Ls taken from the elaborated circuit: half the
   // line-to-line Thevenin reactance at the AC terminals over ω.
