@@ -15,6 +15,7 @@
 #include <cmath>
 #include <memory>
 #include <numbers>
+#include <optional>
 #include <set>
 #include <stdexcept>
 
@@ -22,6 +23,7 @@
 #include "engine/fast_vector_ops.h"
 #include "engine/mna.h"
 #include "engine/phasor.h"
+#include "engine/shooting.h"
 #include "models/source_branch.h"
 #include "models/valve.h"
 
@@ -63,12 +65,32 @@ void Check(int flag, const char* call) {
 
 // ---- the run ---------------------------------------------------------------
 
+// Everything a run carries from one cycle into the next, taken at a cycle
+// boundary: what a period of simulation starts from when shooting for the
+// steady state (engine/shooting.h).
+struct CycleState {
+  std::vector<double> x;                // the differential unknowns
+  std::vector<std::uint8_t> switches;   // every switch slot
+  std::vector<double> recover_left;     // per valve: recovery (tq) still to run, s (< 0: none)
+  // Per firing element: its delay angle, and for a regulator its integral,
+  // the probe's integral since its last sample and the probe's value at the
+  // boundary, and the time since that sample.
+  std::vector<double> alpha, integral, regulated_integral, last_value, since_sample;
+};
+
+// Takes samples and keeps none (the trial periods of shooting).
+class DiscardingSink final : public SampleSink {
+ public:
+  void OnSample(double, const double*, const double*) override {}
+  bool wants_derivatives() const override { return false; }
+};
+
 class Run {
  public:
   Run(const Circuit& circuit, const Study& study, const EngineOptions& options, SampleSink& sink,
-      const std::vector<EngineAction>& actions)
+      const std::vector<EngineAction>& actions, const CycleState* trial_start = nullptr)
       : circuit_(&circuit), study_(&study), options_(options), actions_(actions), sink_(sink),
-        mna_(circuit, options.lu), n_(mna_.size()) {
+        mna_(circuit, options.lu), n_(mna_.size()), trial_start_(trial_start) {
     std::stable_sort(actions_.begin(), actions_.end(),
                      [](const EngineAction& a, const EngineAction& b) { return a.t < b.t; });
   }
@@ -114,6 +136,7 @@ class Run {
     t_end_ = sim.stop;
     if (study_->steady && study_->steady->settle_max > 0 && period_ > 0)
       t_end_ = std::min(sim.stop, study_->steady->settle_max + study_->steady->cycles * period_);
+    if (trial_start_) t_end_ = period_;  // one period, from a cycle boundary
 
     // Scales for the absolute tolerances and the valve hysteresis.
     double v_ref = 0.0, i_ref = 0.0, r_min = 0.0;
@@ -168,7 +191,10 @@ class Run {
     states_.assign(circuit_->num_switch_slots(), 0);
     for (const auto& d : circuit_->devices())
       if (d->has_switch_state()) states_[d->switch_slot()] = d->initially_on();
-    if (sim.periodic_start && study_->fundamental > 0) {
+    if (trial_start_) {
+      const auto& diff = mna_.differential_indices();
+      for (std::size_t i = 0; i < diff.size(); ++i) y[diff[i]] = trial_start_->x[i];
+    } else if (sim.periodic_start && study_->fundamental > 0) {
       // Start from the AC steady state of the network (engine/phasor.h),
       // except where the user gave an initial value.
       mna_.SetSwitchStates(states_);
@@ -189,6 +215,7 @@ class Run {
       if (f.regulate_probe >= 0) {
         regulated_integral_.assign(circuit_->firings().size(), 0.0);
         last_regulated_value_.assign(circuit_->firings().size(), 0.0);
+        for (const auto& slot : study_->probes[f.regulate_probe].slots) wants_regulated_derivative_ |= !slot.yp.empty();
       }
     }
     result_.final_alpha = alpha_now_;
@@ -201,6 +228,7 @@ class Run {
     suppressed_until_.assign(valves_.size(), -1.0);
     t_off_.assign(valves_.size(), -1.0);
     awaiting_forward_.assign(valves_.size(), 0);
+    if (trial_start_) LoadCycleState(*trial_start_, 0.0, true);
     StartPlls();  // before the first Settle, which fires by the loops' angles
     if (!Settle(0.0, {})) return false;
     next_gate_edge_ = NextGateEdge(0.0);
@@ -227,7 +255,19 @@ class Run {
       Check(IDASetNoInactiveRootWarn(mem), "IDASetNoInactiveRootWarn");
       SetRootDirections();
     }
-    if (study_->steady && period_ > 0) {
+    shooting_armed_ = !trial_start_ && study_->steady && study_->steady->shooting && period_ > 0;
+    if (shooting_armed_) {
+      for (const auto& fr : circuit_->firings())
+        if (fr.measured_sync()) shooting_armed_ = false;  // a PLL's state is not carried over
+      if (!shooting_armed_) result_.summary.shooting_message = "not used: a firing element has a PLL";
+      // A case with timed actions is run for its transient (a load step's
+      // settling, a fault's currents): shooting would skip what it is for.
+      if (shooting_armed_ && !actions_.empty()) {
+        shooting_armed_ = false;
+        result_.summary.shooting_message = "not used: the case's timed actions make its transient the result";
+      }
+    }
+    if (study_->steady && period_ > 0 && !trial_start_) {
       next_boundary_ = period_;
       previous_state_ = DifferentialState(y);
       cycle_peak_.assign(previous_state_.size(), 0.0);
@@ -285,6 +325,13 @@ class Run {
       EmitSamples(std::min(t, t_end_), dt);
       TrackCycles(t);
       result_.summary.t_reached = t;
+      if (shoot_now_) {
+        shoot_now_ = false;
+        if (!Shoot(t)) return;
+        ArmStopTime(t);
+        continue;
+      }
+      if (flag == IDA_TSTOP_RETURN && shooting_armed_ && t < next_gate_edge_ && t < t_end_) ArmStopTime(t);
       if (flag == IDA_ROOT_RETURN) {
         Check(IDAGetRootInfo(mem, roots.data()), "IDAGetRootInfo");
         std::vector<int> flagged;
@@ -297,6 +344,7 @@ class Run {
       // less than IDA can step (its "tout too close to t0").
       if (t >= t_end_ - 1e-9 * result_.summary.sample_used) {
         if (t < t_end_) EmitSamples(t_end_, dt);
+        if (trial_start_) trial_end_ = CaptureCycleState(t);
         break;
       }
       if (next_action_ < actions_.size() && t >= actions_[next_action_].t) {
@@ -729,6 +777,13 @@ class Run {
       const Firing& fr = firings[f];
       if (fr.regulate_probe < 0) continue;
       const double dt = t - last_regulation_[f];
+      // One sample a pulse. A delay that grew at this pulse's start moves
+      // that start a little later, and IDA stops there again: that is the
+      // same pulse, not a new sample (whose mean over a few microseconds
+      // would be the instantaneous ripple, and alpha would swing from one
+      // edge to the other every pulse).
+      if (period_ > 0 && dt < period_ / 12.0) continue;
+      ++result_.summary.regulator_samples;
       last_regulation_[f] = t;
       // The measurement is the probe's mean since the last sample (a
       // synchronously sampled average, as drive controllers measure), not
@@ -764,17 +819,40 @@ class Run {
     ArmStopTime(t);
   }
 
-  // Adds ∫probe dt over the step just taken (trapezoid rule on the step's
-  // end values) for every regulated probe.
+  // Adds ∫probe dt over the step just taken for every regulated probe:
+  // Simpson's rule with the midpoint from IDA's interpolating polynomial
+  // when the step is IDA's last one (the usual case), else the trapezoid
+  // rule. The trapezoid's error on the converter ripple, h³·x''/12 a step,
+  // is of the order of the integrator's tolerance times the ripple; the
+  // regulator's gain carries it into alpha and it showed as cycle-to-cycle
+  // noise of the delay angle (about 4e-5 rad) at the level the steady-state
+  // test looks for. Simpson's error is h⁵ smaller in the same way.
   void AccumulateRegulated(double t_new) {
     const auto& firings = circuit_->firings();
     if (regulated_integral_.empty()) return;
     const double* y = N_VGetArrayPointer(y_.get());
     const double* yp = N_VGetArrayPointer(yp_.get());
+    const double h = t_new - last_step_time_;
+    bool simpson = false;
+    if (h > 0 && ida_) {
+      double t_ida = 0.0, h_last = 0.0;
+      IDAGetCurrentTime(ida_.get(), &t_ida);
+      IDAGetLastStep(ida_.get(), &h_last);
+      const double mid = last_step_time_ + 0.5 * h;
+      simpson = last_step_time_ >= t_restart_ && last_step_time_ >= t_ida - h_last * (1 + 1e-12) && t_new <= t_ida &&
+                IDAGetDky(ida_.get(), mid, 0, work_.get()) == IDA_SUCCESS &&
+                (!wants_regulated_derivative_ || IDAGetDky(ida_.get(), mid, 1, work_p_.get()) == IDA_SUCCESS);
+    }
     for (std::size_t f = 0; f < firings.size(); ++f) {
       if (firings[f].regulate_probe < 0) continue;
-      const double value = EvaluateProbe(study_->probes[firings[f].regulate_probe], y, yp);
-      if (t_new > last_step_time_) regulated_integral_[f] += 0.5 * (value + last_regulated_value_[f]) * (t_new - last_step_time_);
+      const Probe& probe = study_->probes[firings[f].regulate_probe];
+      const double value = EvaluateProbe(probe, y, yp);
+      if (simpson) {
+        const double middle = EvaluateProbe(probe, N_VGetArrayPointer(work_.get()), N_VGetArrayPointer(work_p_.get()));
+        regulated_integral_[f] += h / 6.0 * (last_regulated_value_[f] + 4.0 * middle + value);
+      } else if (h > 0) {
+        regulated_integral_[f] += 0.5 * (value + last_regulated_value_[f]) * h;
+      }
       last_regulated_value_[f] = value;
     }
     last_step_time_ = t_new;
@@ -789,6 +867,8 @@ class Run {
     if (next_gate_edge_ <= t) next_gate_edge_ = NextGateEdge(t);
     double stop = std::min(t_end_, next_gate_edge_);
     if (next_action_ < actions_.size() && actions_[next_action_].t > t) stop = std::min(stop, actions_[next_action_].t);
+    // Shooting starts from a cycle boundary exactly.
+    if (shooting_armed_ && next_boundary_ > t) stop = std::min(stop, next_boundary_);
     // After a root return that changed nothing (a blocking thyristor's
     // voltage turning positive) IDA is not restarted, and its own time is
     // the end of the step that held the root, ahead of t. A PLL update can
@@ -970,7 +1050,7 @@ class Run {
   }
 
   void TrackCycles(double t) {
-    if (!study_->steady || period_ <= 0 || result_.summary.steady_reached) return;
+    if (!study_->steady || period_ <= 0 || result_.summary.steady_reached || trial_start_) return;
     const double* y = N_VGetArrayPointer(y_.get());
     const auto& diff = mna_.differential_indices();
     for (std::size_t i = 0; i < diff.size(); ++i)
@@ -1018,6 +1098,12 @@ class Run {
       // last of them has been applied (the cycles after a load step).
       if (next_action_ < actions_.size() || (!actions_.empty() && next_boundary_ <= actions_.back().t + period_))
         agreeing_cycles_ = 0;
+      // Shooting (never in a case with actions), if IDA stopped on this
+      // boundary (it is asked to) and the run is not about to be steady.
+      if (shooting_armed_ && agreeing_cycles_ == 0 && t == next_boundary_ && t >= shoot_not_before_) {
+        shoot_now_ = true;
+        last_cycle_peak_ = cycle_peak_;
+      }
       if (agreeing_cycles_ >= 2) {
         auto& s = result_.summary;
         s.steady_reached = true;
@@ -1034,6 +1120,178 @@ class Run {
       for (std::size_t i = 0; i < x.size(); ++i) cycle_peak_[i] = std::abs(x[i]);
       next_boundary_ += period_;
     }
+  }
+
+  // -- shooting for the steady state (engine/shooting.h) --------------------
+
+  // The firing elements whose delay angle is a state: a current regulator's
+  // (with its integral and the probe's running integral), or one holding
+  // an extinction angle.
+  bool Regulated(std::size_t f) const { return circuit_->firings()[f].regulate_probe >= 0; }
+  bool Controlled(std::size_t f) const { return Regulated(f) || circuit_->firings()[f].gamma > 0; }
+
+  CycleState CaptureCycleState(double t) const {
+    CycleState c;
+    c.x = DifferentialState(N_VGetArrayPointer(y_.get()));
+    c.switches = states_;
+    for (double r : recover_until_) c.recover_left.push_back(r > t ? r - t : -1.0);
+    c.alpha = alpha_now_;
+    c.integral = integral_;
+    const std::size_t firings = circuit_->firings().size();
+    c.regulated_integral.assign(firings, 0.0);
+    c.last_value.assign(firings, 0.0);
+    c.since_sample.assign(firings, 0.0);
+    for (std::size_t f = 0; f < firings; ++f)
+      if (Regulated(f)) {
+        c.regulated_integral[f] = regulated_integral_[f];
+        c.last_value[f] = last_regulated_value_[f];
+        c.since_sample[f] = t - last_regulation_[f];
+      }
+    return c;
+  }
+
+  // Everything but the unknowns (which the caller sets) from `c`, at t.
+  // `sample_from_alpha`: the regulators' last sample is put at the last
+  // pulse start under c's delay angle, not c.since_sample before t (see
+  // Shoot()).
+  void LoadCycleState(const CycleState& c, double t, bool sample_from_alpha) {
+    states_ = c.switches;
+    for (std::size_t k = 0; k < recover_until_.size(); ++k)
+      recover_until_[k] = c.recover_left[k] >= 0 ? t + c.recover_left[k] : -1.0;
+    alpha_now_ = c.alpha;
+    integral_ = c.integral;
+    for (std::size_t f = 0; f < alpha_now_.size(); ++f)
+      if (Regulated(f)) {
+        regulated_integral_[f] = c.regulated_integral[f];
+        last_regulated_value_[f] = c.last_value[f];
+        double since = c.since_sample[f];
+        if (sample_from_alpha) {
+          since = std::fmod(FiringAngle(static_cast<int>(f), t) - alpha_now_[f], std::numbers::pi / 3);
+          if (since < 0) since += std::numbers::pi / 3;
+          since /= FiringSpeed(static_cast<int>(f));
+        }
+        last_regulation_[f] = t - since;
+      }
+    last_step_time_ = t;
+    result_.final_alpha = alpha_now_;
+  }
+
+  // The Newton unknowns of a cycle state: the differential unknowns, then
+  // per controlled firing its delay angle and, for a regulator, its
+  // integral (if ki acts on it) and the probe's running integral.
+  Eigen::VectorXd Pack(const CycleState& c) const {
+    std::vector<double> z = c.x;
+    for (std::size_t f = 0; f < c.alpha.size(); ++f) {
+      if (!Controlled(f)) continue;
+      z.push_back(c.alpha[f]);
+      if (!Regulated(f)) continue;
+      if (circuit_->firings()[f].ki != 0) z.push_back(c.integral[f]);
+      z.push_back(c.regulated_integral[f]);
+    }
+    return Eigen::Map<const Eigen::VectorXd>(z.data(), static_cast<Eigen::Index>(z.size()));
+  }
+  CycleState Unpack(const Eigen::VectorXd& z, CycleState c) const {
+    Eigen::Index k = 0;
+    for (double& x : c.x) x = z[k++];
+    for (std::size_t f = 0; f < c.alpha.size(); ++f) {
+      if (!Controlled(f)) continue;
+      c.alpha[f] = z[k++];
+      if (!Regulated(f)) continue;
+      if (circuit_->firings()[f].ki != 0) c.integral[f] = z[k++];
+      c.regulated_integral[f] = z[k++];
+    }
+    return c;
+  }
+
+  // Each Newton unknown's tolerance (as the steady-state test weighs it)
+  // and its scale (for the finite-difference steps).
+  void ShootingWeights(const CycleState& c, Eigen::VectorXd* weights, Eigen::VectorXd* scales) const {
+    const double tol = study_->steady->tol;
+    std::vector<double> w, sc;
+    const auto& diff = mna_.differential_indices();
+    for (std::size_t i = 0; i < diff.size(); ++i) {
+      w.push_back(tol * last_cycle_peak_[i] + atol_[diff[i]]);
+      sc.push_back(w.back() / tol);
+    }
+    for (std::size_t f = 0; f < c.alpha.size(); ++f) {
+      if (!Controlled(f)) continue;
+      w.push_back(tol * std::numbers::pi);  // as the steady-state test weighs alpha
+      sc.push_back(std::numbers::pi);
+      if (!Regulated(f)) continue;
+      const Firing& fr = circuit_->firings()[f];
+      const double pulse = period_ / 6.0;
+      if (fr.ki != 0) {
+        // The integral moves alpha by ki·∫e dt.
+        w.push_back(tol * std::numbers::pi / std::abs(fr.ki));
+        sc.push_back(std::numbers::pi / std::abs(fr.ki));
+      }
+      // The probe's running integral r moves the next sample's alpha by
+      // (kp/Δt + ki)·r, Δt a pulse.
+      const double level = std::max(std::abs(fr.target), i_ref_ * 1e-6) * pulse;
+      const double gain = std::abs(fr.kp) / pulse + std::abs(fr.ki);
+      w.push_back(gain > 0 ? tol * std::numbers::pi / gain : level);
+      sc.push_back(level);
+    }
+    *weights = Eigen::Map<Eigen::VectorXd>(w.data(), static_cast<Eigen::Index>(w.size()));
+    *scales = Eigen::Map<Eigen::VectorXd>(sc.data(), static_cast<Eigen::Index>(sc.size()));
+  }
+
+  // One period of the circuit from `start`, in a run of its own whose
+  // samples are discarded; false if it fails.
+  bool TrialPeriod(const CycleState& start, CycleState* end) {
+    DiscardingSink discard;
+    Run trial(*circuit_, *study_, options_, discard, {}, &start);
+    const RunResult r = trial.Execute();
+    result_.summary.shooting_steps += r.summary.steps;
+    if (r.summary.status != RunSummary::Status::kCompleted || !trial.trial_end_) return false;
+    *end = *trial.trial_end_;
+    return true;
+  }
+
+  // At the cycle boundary t: solves for the periodic steady state by
+  // shooting and, if it converges, continues the run from it. The run
+  // carries on as it was if shooting does not converge.
+  bool Shoot(double t) {
+    auto& s = result_.summary;
+    const CycleState here = CaptureCycleState(t);
+    Eigen::VectorXd weights, scales;
+    ShootingWeights(here, &weights, &scales);
+    CycleState last_end;
+    const PeriodMap period = [&](const Eigen::VectorXd& z, Eigen::VectorXd* end) {
+      if (!TrialPeriod(Unpack(z, here), &last_end)) return false;
+      *end = Pack(last_end);
+      return true;
+    };
+    const ShootingResult r = SolvePeriodicState(period, Pack(here), weights, scales);
+    s.shooting_periods += r.periods;
+    s.shooting_iterations += r.iterations;
+    ++s.shooting_attempts;
+    if (!r.converged) {
+      s.shooting_message = fmt::format("did not converge at {:.6g} s ({}); simulated on", t, r.message);
+      if (s.shooting_attempts >= 2) shooting_armed_ = false;
+      shoot_not_before_ = t + 2 * period_ * (1 - 1e-9);  // the next try two cycles on
+      return true;
+    }
+    shooting_armed_ = false;
+    s.shooting_converged = true;
+    s.shooting_time = t;
+    s.shooting_message.clear();
+    // Continue from the end of the last trial period: a state one
+    // simulated cycle produced, which came back to within the tolerance.
+    const CycleState steady = Unpack(r.z_end, last_end);
+    double* y = N_VGetArrayPointer(y_.get());
+    const auto& diff = mna_.differential_indices();
+    for (std::size_t i = 0; i < diff.size(); ++i) y[diff[i]] = steady.x[i];
+    LoadCycleState(steady, t, false);
+    next_gate_edge_ = NextGateEdge(t);  // the delay angles changed
+    if (!HandleEvent(t, {}, true)) return false;
+    // The trial's cycle was one agreeing cycle: the next boundary that
+    // agrees with this state makes the run steady.
+    previous_state_ = steady.x;
+    previous_alpha_ = alpha_now_;
+    for (std::size_t i = 0; i < steady.x.size(); ++i) cycle_peak_[i] = std::abs(steady.x[i]);
+    agreeing_cycles_ = 1;
+    return true;
   }
 
   void FinishWindow() {
@@ -1184,6 +1442,7 @@ class Run {
   std::vector<double> regulated_integral_;    // per firing: ∫probe dt since its last sample
   std::vector<double> last_regulated_value_;  // per firing: the probe at the last step
   double last_step_time_ = 0.0;
+  bool wants_regulated_derivative_ = false;  // a regulated probe reads y'
   std::vector<double> t_off_;            // per valve: last turn-off
   std::vector<char> awaiting_forward_;   // per valve: extinction interval still open
   long next_sample_ = 0;
@@ -1192,6 +1451,13 @@ class Run {
   std::vector<double> previous_alpha_;  // delay angles at the last cycle boundary
   std::vector<double> previous_pll_angle_;  // unwrapped loop angles at the last cycle boundary
   int agreeing_cycles_ = 0;
+  // Shooting: trial runs start from trial_start_ and leave their end state
+  // in trial_end_; the main run shoots at a boundary when shooting_armed_.
+  const CycleState* trial_start_ = nullptr;
+  std::optional<CycleState> trial_end_;
+  bool shooting_armed_ = false, shoot_now_ = false;
+  double shoot_not_before_ = 0.0;
+  std::vector<double> last_cycle_peak_;  // each state's peak over the cycle before the shot
 
   const bool wants_derivatives_ = sink_.wants_derivatives();
   // LCCSIM_TRACE=1 in the environment prints every valve switching.
@@ -1230,6 +1496,7 @@ std::string RunSummary::BriefReport() const {
                                 t_reached, steps, events, switchings, wall_seconds);
   if (steady_requested)
     out += steady_reached ? fmt::format(", steady at {:.6g} s", steady_time) : ", steady state NOT reached";
+  if (shooting_converged) out += fmt::format(" (by shooting: {} trial periods)", shooting_periods);
   if (!message.empty()) out += "\n  " + message;
   return out;
 }
@@ -1248,6 +1515,17 @@ std::string RunSummary::FullReport(bool with_wall) const {
     out += steady_reached ? fmt::format("  steady state              reached at {:.9g} s\n", steady_time)
                           : std::string("  steady state              NOT reached; the last cycles are analysed\n");
   }
+  if (shooting_attempts > 0 || !shooting_message.empty()) {
+    if (shooting_converged)
+      out += fmt::format("  shooting                  converged from {:.9g} s: {} trial periods, {} Newton steps, "
+                         "{} steps\n",
+                         shooting_time, shooting_periods, shooting_iterations, shooting_steps);
+    else if (shooting_attempts > 0)
+      out += fmt::format("  shooting                  {} ({} trial periods, {} steps)\n", shooting_message,
+                         shooting_periods, shooting_steps);
+    else
+      out += fmt::format("  shooting                  {}\n", shooting_message);
+  }
   out += fmt::format("  analysis window           {:.9g} s .. {:.9g} s\n", window_begin, window_end);
   out += fmt::format("  integration steps         {}\n", steps);
   out += fmt::format("  events (root returns)     {}\n", events);
@@ -1263,6 +1541,7 @@ std::string RunSummary::FullReport(bool with_wall) const {
   out += fmt::format("  nonlinear failures        {}\n", nonlinear_failures);
   out += fmt::format("  root-function evaluations {}\n", root_evaluations);
   out += fmt::format("  output samples            {}\n", samples);
+  if (regulator_samples > 0) out += fmt::format("  regulator samples         {}\n", regulator_samples);
   if (with_wall) out += fmt::format("  wall time                 {:.4f} s\n", wall_seconds);
   return out;
 }

@@ -151,6 +151,18 @@ struct RunSummary {
   double window_begin = -1.0;     // s
   double window_end = -1.0;       // s
 
+  // Shooting for the steady state (steady method = shooting): whether it
+  // converged and from which boundary, the trial periods it simulated,
+  // its Newton steps and the integration steps of its trials (not in
+  // `steps`), and why it was not used or did not converge.
+  int shooting_attempts = 0;
+  bool shooting_converged = false;
+  double shooting_time = -1.0;    // s
+  long shooting_periods = 0;
+  long shooting_iterations = 0;
+  long shooting_steps = 0;
+  std::string shooting_message;
+
   // Counters, summed over every re-initialisation of IDA.
   long steps = 0;
   long residual_evaluations = 0;
@@ -165,6 +177,7 @@ struct RunSummary {
   long events = 0;                // root returns handled
   long restart_retries = 0;       // restarts after an event retried with a shorter first step
   long switchings = 0;            // valve state changes
+  long regulator_samples = 0;     // current regulators' samples, all firing elements (one a pulse each)
   long samples = 0;
   double wall_seconds = 0.0;
 

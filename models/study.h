@@ -25,6 +25,9 @@ struct SteadySpec {
   double tol = 1e-5;          // relative change of the state per cycle
   double settle_max = 0.0;    // s (0: until stop)
   double frequency = 0.0;     // Hz (0: the circuit's fundamental)
+  // Find the steady state by shooting-Newton (engine/shooting.h) from the
+  // first cycle boundary, instead of simulating until it settles.
+  bool shooting = false;
   SourceLoc loc;
 };
 

@@ -655,6 +655,7 @@ class Elaborator {
       st.tol = set.number("tol", 1e-5);
       st.settle_max = set.number("settle_max");
       st.frequency = set.number("f");
+      st.shooting = set.words["method"] == "shooting";
       st.loc = loc;
       design_.study.steady = st;
     }

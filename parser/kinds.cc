@@ -213,7 +213,8 @@ const std::vector<KindSpec>& StudyStatements() {
                  {Num("cycles", dims::kNone, 2.0, Constraint::kPositiveInteger, "whole cycles recorded once steady"),
                   Num("tol", dims::kNone, 1e-5, Constraint::kFraction, "largest relative change of the state over one cycle"),
                   Num("settle_max", dims::kTime, std::nullopt, kPos, "give up waiting for steady state after this time (default: stop)"),
-                  Num("f", dims::kFrequency, std::nullopt, kPos, "fundamental frequency (default: that of the first periodic source)")},
+                  Num("f", dims::kFrequency, std::nullopt, kPos, "fundamental frequency (default: that of the first periodic source)"),
+                  Word("method", {"simulate", "shooting"}, "simulate", "how the steady state is reached: simulated cycle after cycle, or by shooting-Newton from the first cycle boundary")},
                  "periodic steady state"});
     s.push_back({"window", {},
                  {Num("from", dims::kTime, std::nullopt, Constraint::kNonNegative, "start of the analysis window", true),

@@ -439,7 +439,8 @@ void ProbeAndFiringFigures(const AnalysisInput& in, CaseAnalysis* a) {
       ff.target_A = firings[f].target;
       ff.mean_A = window[regulated[f]].Result().mean;
       ff.error_pct = ff.target_A != 0 ? 100.0 * (ff.mean_A - ff.target_A) / ff.target_A : 0.0;
-      ff.settling_s = s.period > 0 ? settling[f].Result() : -1.0;
+      ff.settling_skipped = s.shooting_converged;
+      ff.settling_s = s.period > 0 && !ff.settling_skipped ? settling[f].Result() : -1.0;
     }
     a->firings.push_back(ff);
   }

@@ -96,6 +96,9 @@ struct FiringFigures {
   std::string regulates;            // probe name; empty for constant alpha
   double target_A = 0, mean_A = 0, error_pct = 0;
   double settling_s = -1;           // within 1 % from then on (−1: never)
+  // The steady state was found by shooting: the settling transient was
+  // skipped, so there is no settling time to give (settling_s is −1).
+  bool settling_skipped = false;
 };
 
 struct RunFigures {

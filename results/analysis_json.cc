@@ -20,7 +20,7 @@ NLOHMANN_DEFINE_TYPE_NON_INTRUSIVE_WITH_DEFAULT(AcPointFigures, name, kind, v_rm
                                                 voltage_thd_pct, p_W, q1_var, s_VA, displacement_factor,
                                                 power_factor, winding_VA, utilisation)
 NLOHMANN_DEFINE_TYPE_NON_INTRUSIVE_WITH_DEFAULT(FiringFigures, name, alpha_end_deg, regulates, target_A, mean_A,
-                                                error_pct, settling_s)
+                                                error_pct, settling_s, settling_skipped)
 NLOHMANN_DEFINE_TYPE_NON_INTRUSIVE_WITH_DEFAULT(RunFigures, status, message, steady_requested, steady_reached,
                                                 steady_time_s, t_reached_s, period_s, steps, events, switchings,
                                                 samples, statistics)

@@ -158,8 +158,9 @@ void Firings(const CaseAnalysis& a, std::string& out) {
     if (!f.regulates.empty()) {
       out += fmt::format("; regulates {} to {:.6g} A: mean {:.6g} A ({:+.3f} %), ", f.regulates, f.target_A, f.mean_A,
                          f.error_pct);
-      out += f.settling_s >= 0 ? fmt::format("within 1 % from {:.4g} s", f.settling_s)
-                               : std::string("not settled within 1 %");
+      out += f.settling_skipped ? std::string("settling not simulated (the steady state was found by shooting)")
+             : f.settling_s >= 0  ? fmt::format("within 1 % from {:.4g} s", f.settling_s)
+                                  : std::string("not settled within 1 %");
       if (f.settling_s >= 0 && a.fault.fault_time_s >= 0 && f.settling_s >= a.fault.fault_time_s)
         out += fmt::format(" ({:.4g} s after the first action)", f.settling_s - a.fault.fault_time_s);
     }

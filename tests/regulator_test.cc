@@ -3,6 +3,7 @@
 
 #include <unistd.h>
 
+#include <algorithm>
 #include <cmath>
 #include <filesystem>
 #include <fstream>
@@ -57,6 +58,72 @@ steady cycles = 2
   // The source resistance drops about 2·R·Id on the DC side as well (two phases conduct).
   const double cos_alpha = (400.0 + 0.05 * 200.0 + 3 * x * 200.0 / M_PI + 2 * r * 200.0) / vdo;
   REQUIRE(std::abs(c.run.final_alpha[0] - std::acos(cos_alpha)) * 180 / M_PI < 1.0);
+}
+
+TEST_CASE("TheRegulatorSamplesOncePerPulseAndHoldsOneDelayAtSteadyState", "[thyristor][regulator]") {
+  // A sampled PI at steady state has a constant output: the error it
+  // integrates is zero, so every pulse is fired at the same delay (common
+  // practice for a drive's current loop, which samples once per pulse).
+  // A delay that grew at a pulse start moves that start a little later;
+  // taking a second sample there (over a few microseconds, so the
+  // instantaneous ripple) once made alpha swing by about a degree from
+  // pulse to pulse. The delays in the window, from the located turn-ons
+  // after each valve's natural instant, must agree to 0.02 degrees.
+  auto c = testing::Simulate(R"(
+supply Mains (a, b, c) Vll = 400 V f = 50 Hz Ssc = 2 MVA xr = 8
+probe Ia = La.i
+firing F sync = Mains alpha = 60 deg alpha_min = 5 deg alpha_max = 150 deg
+         regulate = Ia target = 200 A kp = 0.5e-3 rad / 1 A ki = 0.1 rad / (1 A * 1 s)
+bridge B ac = (a, b, c) dc = (p, n) valve = thyristor firing = F
+inductor La (p, q) L = 2 mH R = 50 mohm
+voltage_source Eb (q, n) dc = 400 V
+simulate stop = 1 s
+steady cycles = 2
+)");
+  REQUIRE(c.run.summary.steady_reached);
+  const auto& group = c.design->circuit.valve_groups().at(0);
+  const double period = 0.02, w = 2 * M_PI / period;
+  double lo = 1e9, hi = -1e9;
+  int fired = 0;
+  for (const auto& e : c.run.events) {
+    if (!e.on || e.cause != SwitchEvent::Cause::kGate || e.t < c.run.summary.window_begin) continue;
+    const auto v = std::find(group.devices.begin(), group.devices.end(), e.device) - group.devices.begin();
+    const double delay = std::remainder(w * (e.t - c.run.firing_reference[0]) - v * M_PI / 3, 2 * M_PI) * 180 / M_PI;
+    lo = std::min(lo, delay);
+    hi = std::max(hi, delay);
+    ++fired;
+  }
+  const double final_alpha = c.run.final_alpha.at(0) * 180 / M_PI;
+  INFO("delays from " << lo << " to " << hi << " deg over " << fired << " firings; final alpha " << final_alpha);
+  REQUIRE(fired == 12);  // two cycles of six pulses
+  REQUIRE(hi - lo < 0.02);
+  // The delay in force at the end is the one the pulses were fired at.
+  REQUIRE(std::abs(final_alpha - 0.5 * (lo + hi)) < 0.02);
+}
+
+TEST_CASE("TheRegulatorTakesOneSampleAPulseWhileItsDelayGrows", "[thyristor][regulator]") {
+  // The documented loop samples at every pulse start: six samples a cycle
+  // for a six-pulse bridge. Starting at 60° with the current still
+  // rising, the loop first cuts the delay, then lets it grow again
+  // (33° to 39° within 60 ms). A delay that grows at a pulse start moves
+  // that very start a little later, where the integrator stops again; a
+  // second sample there (its mean taken over microseconds) once doubled
+  // the count and bent the response.
+  auto c = testing::Simulate(R"(
+supply Mains (a, b, c) Vll = 400 V f = 50 Hz Ssc = 2 MVA xr = 8
+probe Ia = La.i
+firing F sync = Mains alpha = 60 deg alpha_min = 5 deg alpha_max = 150 deg
+         regulate = Ia target = 200 A kp = 0.5e-3 rad / 1 A ki = 0.1 rad / (1 A * 1 s)
+bridge B ac = (a, b, c) dc = (p, n) valve = thyristor firing = F
+inductor La (p, q) L = 2 mH R = 50 mohm
+voltage_source Eb (q, n) dc = 400 V
+simulate stop = 200 ms
+)");
+  // Ten cycles: 60 pulse starts, the first within the first pulse interval.
+  const long samples = c.run.summary.regulator_samples;
+  INFO(samples << " samples");
+  REQUIRE(samples >= 59);
+  REQUIRE(samples <= 60);
 }
 
 TEST_CASE("UnderRegulationTheClosedFormsHoldWithTheWindowsDelayAngle", "[thyristor][regulator]") {
