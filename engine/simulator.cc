@@ -999,6 +999,7 @@ class Run {
   // -- outputs and cycles -------------------------------------------------------
 
   void EmitSamples(double t, double dt) {
+    if (trial_start_) return;  // a trial period of shooting keeps no samples
     void* mem = ida_.get();
     const double slack = 1e-9 * dt;  // so that a sample at exactly t_end is not lost to rounding
     // IDA's interpolant of order q between steps of size h misses a
@@ -1035,6 +1036,7 @@ class Run {
 
   // Samples up to t from a state rather than from IDA's interpolant.
   void EmitStateSamples(double t, const double* y, const double* yp) {
+    if (trial_start_) return;
     const double dt = result_.summary.sample_used;
     while (next_sample_ * dt <= t) {
       sink_.OnSample(next_sample_ * dt, y, wants_derivatives_ ? yp : nullptr);
