@@ -93,6 +93,21 @@ inline ClosedFormErrors WorstClosedFormErrors(const CaseAnalysis& a) {
   return e;
 }
 
+// The twelve-pulse benchmark circuit: Yy0 + Yd11 from one 11 kV supply,
+// bridges in series carrying a constant 1 kA, rtol 1e-6, no probes.
+inline std::string TwelvePulseNetlist(double seconds) {
+  return fmt::format(R"(
+supply G (A, B, C) Vll = 11 kV f = 50 Hz Ssc = 250 MVA xr = 12
+transformer Ty hv = (A, B, C) lv = (y1, y2, y3) group = Yy0  S = 2 MVA V1 = 11 kV V2 = 1 kV z = 8 % xr = 15 im = 0.5 %
+transformer Td hv = (A, B, C) lv = (d1, d2, d3) group = Yd11 S = 2 MVA V1 = 11 kV V2 = 1 kV z = 8 % xr = 15 im = 0.5 %
+bridge B1 ac = (y1, y2, y3) dc = (mid, n) Ron = 10 uohm
+bridge B2 ac = (d1, d2, d3) dc = (p, mid) Ron = 10 uohm
+current_source Iload (n, p) dc = 1 kA
+simulate stop = {} s reltol = 1e-6
+)",
+                     seconds);
+}
+
 inline double PeakRssMegabytes() {
   rusage usage{};
   getrusage(RUSAGE_SELF, &usage);

@@ -24,21 +24,14 @@
 #include <string>
 
 #include "app/commands.h"
+#include "bench/bench_run.h"
 
 namespace {
 
 namespace fs = std::filesystem;
 
 std::string Netlist(double seconds) {
-  std::string text = fmt::format(R"(
-supply G (A, B, C) Vll = 11 kV f = 50 Hz Ssc = 250 MVA xr = 12
-transformer Ty hv = (A, B, C) lv = (y1, y2, y3) group = Yy0  S = 2 MVA V1 = 11 kV V2 = 1 kV z = 8 % xr = 15 im = 0.5 %
-transformer Td hv = (A, B, C) lv = (d1, d2, d3) group = Yd11 S = 2 MVA V1 = 11 kV V2 = 1 kV z = 8 % xr = 15 im = 0.5 %
-bridge B1 ac = (y1, y2, y3) dc = (mid, n) Ron = 10 uohm
-bridge B2 ac = (d1, d2, d3) dc = (p, mid) Ron = 10 uohm
-current_source Iload (n, p) dc = 1 kA
-simulate stop = {} s reltol = 1e-6
-probe Vd = p - n
+  std::string text = lcc::bench::TwelvePulseNetlist(seconds) + R"(probe Vd = p - n
 probe Vd1 = mid - n
 probe Vd2 = p - mid
 probe IA = G.a.i
@@ -46,8 +39,7 @@ probe IB = G.b.i
 probe IC = G.c.i
 probe Vy12 = y1 - y2
 probe Vd12 = d1 - d2
-)",
-                                 seconds);
+)";
   // Twelve valve currents: 8 + 12 = 20 probes.
   for (int b = 1; b <= 2; ++b)
     for (int v = 1; v <= 6; ++v) text += fmt::format("probe I{0}v{1} = B{0}[{1}].i\n", b, v);

@@ -19,18 +19,8 @@
 
 int main(int argc, char** argv) {
   const double seconds = argc > 1 ? std::atof(argv[1]) : 1.0;
-  const std::string text = fmt::format(R"(
-supply G (A, B, C) Vll = 11 kV f = 50 Hz Ssc = 250 MVA xr = 12
-transformer Ty hv = (A, B, C) lv = (y1, y2, y3) group = Yy0  S = 2 MVA V1 = 11 kV V2 = 1 kV z = 8 % xr = 15 im = 0.5 %
-transformer Td hv = (A, B, C) lv = (d1, d2, d3) group = Yd11 S = 2 MVA V1 = 11 kV V2 = 1 kV z = 8 % xr = 15 im = 0.5 %
-bridge B1 ac = (y1, y2, y3) dc = (mid, n) Ron = 10 uohm
-bridge B2 ac = (d1, d2, d3) dc = (p, mid) Ron = 10 uohm
-current_source Iload (n, p) dc = 1 kA
-simulate stop = {} s reltol = 1e-6
-probe Vd = p - n
-probe IA = G.a.i
-probe Iv1 = B1[1].i
-)", seconds);
+  const std::string text = lcc::bench::TwelvePulseNetlist(seconds) +
+                           "probe Vd = p - n\nprobe IA = G.a.i\nprobe Iv1 = B1[1].i\n";
   const auto design = lcc::bench::ElaborateOrExit(text);
   const auto analysed = lcc::bench::FastestAnalysedOfThree(*design);
   const lcc::RunSummary& best = analysed.summary;
