@@ -1153,9 +1153,12 @@ class Run {
   }
 
   // Everything but the unknowns (which the caller sets) from `c`, at t.
-  // `sample_from_alpha`: the regulators' last sample is put at the last
-  // pulse start under c's delay angle, not c.since_sample before t (see
-  // Shoot()).
+  // `sample_from_alpha` (trial periods): the regulators' last sample is put
+  // at the last pulse start under c's delay angle, not c.since_sample
+  // before t. The time since the last sample follows the delay angle; kept
+  // as captured, it would go stale when a Newton step moves alpha, and the
+  // trial would no longer be the circuit's period map. The main run,
+  // continuing from a trial's end, takes the time that trial recorded.
   void LoadCycleState(const CycleState& c, double t, bool sample_from_alpha) {
     states_ = c.switches;
     for (std::size_t k = 0; k < recover_until_.size(); ++k)
