@@ -12,7 +12,6 @@
 //
 // Usage: bench_pulse_scaling [simulated-seconds]
 #include <fmt/format.h>
-#include <sys/resource.h>
 
 #include <cstdlib>
 #include <string>

@@ -29,6 +29,7 @@ ShootingResult SolvePeriodicState(const PeriodMap& period, const Eigen::VectorXd
     return r;
   }
   r.z_end = end;
+  r.end_evaluation = r.periods - 1;
   r.residual = WeightedRms(f, weights);
   if (r.residual <= o.tolerance) {
     r.converged = true;
@@ -50,6 +51,7 @@ ShootingResult SolvePeriodicState(const PeriodMap& period, const Eigen::VectorXd
 
   double best_residual = r.residual;
   Eigen::VectorXd best_end = r.z_end;
+  int best_evaluation = r.end_evaluation;
   for (r.iterations = 1; r.iterations <= o.max_iterations; ++r.iterations) {
     Eigen::FullPivLU<Eigen::MatrixXd> lu(jacobian);
     if (lu.rank() < n) {
@@ -70,8 +72,9 @@ ShootingResult SolvePeriodicState(const PeriodMap& period, const Eigen::VectorXd
       return r;
     }
     const double residual = WeightedRms(f_new, weights);
-    if (residual < best_residual) best_residual = residual, best_end = end;
+    if (residual < best_residual) best_residual = residual, best_end = end, best_evaluation = r.periods - 1;
     r.z_end = end;
+    r.end_evaluation = r.periods - 1;
     r.residual = residual;
     if (r.residual <= o.tolerance) {
       r.converged = true;
@@ -91,6 +94,7 @@ ShootingResult SolvePeriodicState(const PeriodMap& period, const Eigen::VectorXd
     r.converged = true;
     r.residual = best_residual;
     r.z_end = best_end;
+    r.end_evaluation = best_evaluation;
     return r;
   }
   r.message = "no convergence within the Newton steps allowed";

@@ -36,6 +36,7 @@ struct ShootingResult {
   int periods = 0;              // evaluations of P (simulated periods)
   double residual = 0.0;        // weighted rms of P(z) − z at the last evaluation
   Eigen::VectorXd z_end;        // P(z) of the evaluation returned (the last, or the best)
+  int end_evaluation = -1;      // which evaluation of P (0-based, in call order) gave z_end
   std::string message;          // why it stopped, when not converged
 };
 

@@ -1261,11 +1261,15 @@ class Run {
     const CycleState here = CaptureCycleState(t);
     Eigen::VectorXd weights, scales;
     ShootingWeights(here, &weights, &scales);
-    CycleState last_end;
+    // Every trial's end state, by evaluation (a failed one leaves its slot
+    // empty): the solver may return the best period rather than the last.
+    std::vector<std::optional<CycleState>> ends;
     const PeriodMap period = [&](const Eigen::VectorXd& z, Eigen::VectorXd* end) {
-      if (!TrialPeriod(Unpack(z, here), &last_end)) return false;
-      *end = Pack(last_end);
-      return true;
+      CycleState e;
+      const bool ok = TrialPeriod(Unpack(z, here), &e);
+      ends.push_back(ok ? std::optional<CycleState>(e) : std::nullopt);
+      if (ok) *end = Pack(e);
+      return ok;
     };
     const ShootingResult r = SolvePeriodicState(period, Pack(here), weights, scales);
     s.shooting_periods += r.periods;
@@ -1281,9 +1285,10 @@ class Run {
     s.shooting_converged = true;
     s.shooting_time = t;
     s.shooting_message.clear();
-    // Continue from the end of the last trial period: a state one
-    // simulated cycle produced, which came back to within the tolerance.
-    const CycleState steady = Unpack(r.z_end, last_end);
+    // Continue from the end of the trial period the solver returned: a
+    // state one simulated cycle produced, which came back to within the
+    // tolerance (switch states and regulator timing included).
+    const CycleState steady = *ends.at(static_cast<std::size_t>(r.end_evaluation));
     double* y = N_VGetArrayPointer(y_.get());
     const auto& diff = mna_.differential_indices();
     for (std::size_t i = 0; i < diff.size(); ++i) y[diff[i]] = steady.x[i];

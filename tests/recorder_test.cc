@@ -11,11 +11,9 @@
 #include <unistd.h>
 
 #include "app/commands.h"
-#include "engine/simulator.h"
-#include "engine/topology.h"
-#include "parser/elaborate.h"
 #include "results/recorder.h"
 #include "tests/test_utilities/files.h"
+#include "tests/test_utilities/run_netlist.h"
 
 namespace lcc {
 namespace {
@@ -27,29 +25,13 @@ supply G (a, b, c) Vll = 400 V f = 50 Hz Ssc = 2 MVA xr = 8
 bridge B ac = (a, b, c) dc = (p, n)
 inductor Ld (p, q) L = 10 mH
 resistor Rl (q, n) R = 5 ohm
-simulate stop = 100 ms
+simulate stop = 800 ms
 probe Vd = p - n
 probe Id = Ld.i
 probe Ia = G.a.i
 )";
 
-struct Recorded {
-  std::unique_ptr<Design> design;
-  std::unique_ptr<ProbeRecorder> recorder;
-};
-
-Recorded Record(const RecorderOptions& options) {
-  Recorded r;
-  Diagnostics diags;
-  r.design = ElaborateText("spool.lcc", kNetlist, diags);
-  REQUIRE(r.design);
-  CheckTopology(r.design->circuit, diags);
-  REQUIRE_FALSE(diags.has_errors());
-  r.recorder = std::make_unique<ProbeRecorder>(r.design->study.probes, options);
-  const RunResult run = lcc::Simulate(r.design->circuit, r.design->study, {}, *r.recorder);
-  REQUIRE(run.summary.status == RunSummary::Status::kCompleted);
-  return r;
-}
+testing::SimulatedCase Record(const RecorderOptions& options) { return testing::Simulate(kNetlist, {}, options); }
 
 void RequireSameRows(const ProbeRecorder& a, const ProbeRecorder& b) {
   REQUIRE(a.rows() == b.rows());
@@ -61,12 +43,13 @@ void RequireSameRows(const ProbeRecorder& a, const ProbeRecorder& b) {
 }
 
 TEST_CASE("SpooledRowsReadBackExactlyAsRecorded", "[recorder]") {
-  const Recorded memory = Record({});
-  // 2 kB blocks: about 60 rows each, so the run crosses many blocks and
-  // the reader's 1 MB blocks end inside the last one.
-  const Recorded spooled = Record({2000, fs::temp_directory_path().string()});
+  const auto memory = Record({});
+  // 2 kB blocks of 32-byte rows, about 60 rows each, so the 40 961 rows
+  // cross hundreds of blocks; the reader's 1 MB blocks (32 768 rows) take
+  // them back in two reads, the second ending inside the spool.
+  const auto spooled = Record({2000, fs::temp_directory_path().string()});
   REQUIRE(memory.recorder->spooled_rows() == 0);
-  REQUIRE(spooled.recorder->spooled_rows() > spooled.recorder->rows() / 2);
+  REQUIRE(spooled.recorder->spooled_rows() > 32768);
   REQUIRE(spooled.recorder->spool_error().empty());
   RequireSameRows(*memory.recorder, *spooled.recorder);
   // Time order, one sample interval apart (T/1024 at 50 Hz).
@@ -75,8 +58,8 @@ TEST_CASE("SpooledRowsReadBackExactlyAsRecorded", "[recorder]") {
 }
 
 TEST_CASE("ASpoolThatCannotBeMadeLosesNoRow", "[recorder]") {
-  const Recorded memory = Record({});
-  const Recorded failed = Record({2000, "/nonexistent-lccsim-folder/spool"});
+  const auto memory = Record({});
+  const auto failed = Record({2000, "/nonexistent-lccsim-folder/spool"});
   REQUIRE(failed.recorder->spool_error().find("cannot make a spool file") != std::string::npos);
   REQUIRE(failed.recorder->spooled_rows() == 0);
   RequireSameRows(*memory.recorder, *failed.recorder);

@@ -31,6 +31,7 @@ TEST_CASE("ShootingFindsTheFixedPointOfAnAffineMapInOneNewtonStep", "[shooting]"
   REQUIRE(r.converged);
   REQUIRE(r.iterations == 1);
   REQUIRE(r.periods == 1 + 3 + 1);  // the start, a period per state, the step
+  REQUIRE(r.end_evaluation == 4);   // the step's period
   REQUIRE((r.z_end - expected).norm() < 1e-9);
 }
 

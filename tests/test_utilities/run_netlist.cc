@@ -46,7 +46,7 @@ std::complex<double> Harmonic(const SimulatedCase& c, const std::string& probe, 
   return count ? sum * 2.0 / static_cast<double>(count) : std::complex<double>(0.0);
 }
 
-SimulatedCase Simulate(const std::string& text, const EngineOptions& options) {
+SimulatedCase Simulate(const std::string& text, const EngineOptions& options, const RecorderOptions& recording) {
   SimulatedCase c;
   Diagnostics diags;
   c.design = ElaborateText("test.lcc", text, diags);
@@ -54,7 +54,7 @@ SimulatedCase Simulate(const std::string& text, const EngineOptions& options) {
   c.diagnostics = diags.Format();
   INFO(c.diagnostics);
   REQUIRE_FALSE(diags.has_errors());
-  c.recorder = std::make_unique<ProbeRecorder>(c.design->study.probes);
+  c.recorder = std::make_unique<ProbeRecorder>(c.design->study.probes, recording);
   c.run = lcc::Simulate(c.design->circuit, c.design->study, options, *c.recorder);
   INFO(c.run.summary.FullReport());
   REQUIRE(c.run.summary.status == RunSummary::Status::kCompleted);

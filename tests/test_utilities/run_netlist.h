@@ -38,7 +38,9 @@ struct SimulatedCase {
 std::complex<double> Harmonic(const SimulatedCase& c, const std::string& probe, double f, int h = 1);
 
 // Elaborates, checks and simulates; REQUIREs that each stage succeeds.
-SimulatedCase Simulate(const std::string& text, const EngineOptions& options = {});
+// `recording`: how the probe recorder keeps its rows (results/recorder.h).
+SimulatedCase Simulate(const std::string& text, const EngineOptions& options = {},
+                       const RecorderOptions& recording = {});
 
 // Elaborates, simulates and analyses as `lccsim run` does; REQUIREs that
 // the run completes.
