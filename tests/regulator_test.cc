@@ -74,7 +74,9 @@ TEST_CASE("TheRegulatorSamplesOncePerPulseAndHoldsOneDelayAtSteadyState", "[thyr
   // taking a second sample there (over a few microseconds, so the
   // instantaneous ripple) once made alpha swing by about a degree from
   // pulse to pulse. The delays in the window, from the located turn-ons
-  // after each valve's natural instant, must agree to 0.02 degrees.
+  // after each valve's natural instant, must agree to 0.02 degrees, about
+  // 1 µs at 50 Hz: the timing resolution commonly asked of a digital firing
+  // circuit (common practice).
   auto c = testing::Simulate(DriveLoop("simulate stop = 1 s\nsteady cycles = 2\n"));
   REQUIRE(c.run.summary.steady_reached);
   const auto& group = c.design->circuit.valve_groups().at(0);
@@ -99,9 +101,10 @@ TEST_CASE("TheRegulatorSamplesOncePerPulseAndHoldsOneDelayAtSteadyState", "[thyr
 
 TEST_CASE("TheRegulatorTakesOneSampleAPulseWhileItsDelayGrows", "[thyristor][regulator]") {
   // The documented loop samples at every pulse start: six samples a cycle
-  // for a six-pulse bridge. Starting at 60° with the current still
-  // rising, the loop first cuts the delay, then lets it grow again
-  // (33° to 39° within 60 ms). A delay that grows at a pulse start moves
+  // for a six-pulse bridge (docs/netlist.md, `firing`). Starting at 60°
+  // with no current, the loop first cuts the delay to drive the current
+  // up, then lets it grow again as the current overshoots, so both
+  // directions occur within the run. A delay that grows at a pulse start moves
   // that very start a little later, where the integrator stops again; a
   // second sample there (its mean taken over microseconds) once doubled
   // the count and bent the response.
