@@ -69,11 +69,9 @@ TEST_CASE("TheCurrentRegulatorHoldsTheArmatureCurrentAtItsTarget", "[thyristor][
 TEST_CASE("TheRegulatorSamplesOncePerPulseAndHoldsOneDelayAtSteadyState", "[thyristor][regulator]") {
   // A sampled PI at steady state has a constant output: the error it
   // integrates is zero, so every pulse is fired at the same delay (common
-  // practice for a drive's current loop, which samples once per pulse).
-  // A delay that grew at a pulse start moves that start a little later;
-  // taking a second sample there (over a few microseconds, so the
-  // instantaneous ripple) once made alpha swing by about a degree from
-  // pulse to pulse. The delays in the window, from the located turn-ons
+  // practice for a drive's current loop, which samples once per pulse;
+  // the sampling itself is checked in the next test). The delays in the
+  // window, from the located turn-ons
   // after each valve's natural instant, must agree to 0.02 degrees, about
   // 1 µs at 50 Hz: the timing resolution commonly asked of a digital firing
   // circuit (common practice).
