@@ -351,10 +351,12 @@ class Run {
         if (!ApplyActions(t)) return;
         ArmStopTime(t);
       }
-      if (flag == IDA_TSTOP_RETURN && t >= next_gate_edge_) {
+      if ((flag == IDA_TSTOP_RETURN || pulse_due_now_) && t >= next_gate_edge_) {
         // A gate pulse starts: the thyristors found gated and forward biased
         // fire, then the regulators take their sample and set the delay of
         // the pulses to come (not of the one that just started).
+        pulse_due_now_ = false;
+        last_gate_edge_ = t;
         next_gate_edge_ = NextGateEdge(t);
         RegisterMisfires(t);
         if (!HandleEvent(t, {})) return;
@@ -864,7 +866,7 @@ class Run {
   void ArmStopTime(double t) {
     // The relaxation step after an event may have moved IDA a little past t.
     t = std::max(t, t_restart_);
-    if (next_gate_edge_ <= t) next_gate_edge_ = NextGateEdge(t);
+    if (next_gate_edge_ <= t && !pulse_due_now_) next_gate_edge_ = NextGateEdge(t);
     double stop = std::min(t_end_, next_gate_edge_);
     if (next_action_ < actions_.size() && actions_[next_action_].t > t) stop = std::min(stop, actions_[next_action_].t);
     // Shooting starts from a cycle boundary exactly.
@@ -939,6 +941,7 @@ class Run {
       Pll& p = pll_[f];
       const double h = t - p.t;
       if (h <= 0) continue;
+      const double old_speed = p.omega;
       const double theta = p.theta + p.omega * h;  // predicted
       const auto [alpha, beta] = Clarke(fr, y);
       const double vd = alpha * std::cos(theta) + beta * std::sin(theta);
@@ -953,9 +956,26 @@ class Run {
       p.unwrapped += p.omega * h;
       p.t = t;
       any = true;
+      // The update moves the predicted pulse starts. One that it brings to
+      // t (within NextGateEdge's guard) or behind it, into the step just
+      // taken that ended short of the old prediction, is due now: the next
+      // start would be a whole pulse on, and the valve's forward voltage,
+      // positive already, would have no sign change left to fire on. (A
+      // start already taken, inferred back from the new angle within a
+      // thousandth of a period, is not.)
+      const double speed = std::max(old_speed, p.omega);
+      for (const auto& ref : valves_) {
+        const GateRef& g = ref.valve->gate();
+        if (ref.valve->type() != Valve::Type::kThyristor || g.firing != static_cast<int>(f)) continue;
+        const double x = PulseAngle(g, t);
+        const bool at_t = x > 2 * std::numbers::pi - 1e-9;
+        const bool in_step = x <= speed * h && t - x / p.omega > last_gate_edge_ + 1e-3 * period_;
+        if (at_t || in_step) pulse_due_now_ = true;
+      }
     }
-    if (any) {
-      // The predicted pulse starts move with the loop's angle and speed.
+    if (pulse_due_now_) {
+      next_gate_edge_ = t;  // taken by the main loop right away
+    } else if (any) {
       next_gate_edge_ = NextGateEdge(t);
       ArmStopTime(t);
     }
@@ -1466,6 +1486,8 @@ class Run {
   const CycleState* trial_start_ = nullptr;
   std::optional<CycleState> trial_end_;
   bool shooting_armed_ = false, shoot_now_ = false;
+  bool pulse_due_now_ = false;  // a PLL update brought a pulse start to where IDA is (UpdatePlls)
+  double last_gate_edge_ = -1.0;  // when the main loop last took a pulse start
   double shoot_not_before_ = 0.0;
   std::vector<double> last_cycle_peak_;  // each state's peak over the cycle before the shot
 

@@ -10,7 +10,10 @@
 #include <catch2/catch.hpp>
 
 #include <cmath>
+#include <map>
 #include <numbers>
+#include <string>
+#include <vector>
 
 #include "results/commutation.h"
 #include "results/events.h"
@@ -159,6 +162,40 @@ probe Vd = p - n
       INFO("valve 1 fired at " << angle << " deg");
       REQUIRE(std::abs(angle - 60.0) < 1.0);
     }
+}
+
+TEST_CASE("APhaseLockedLoopLosesNoGatePulse", "[thyristor][pll]") {
+  // A regression: a PLL update at the end of a step can move the predicted
+  // pulse start onto the integrator's own time, or just behind it. That
+  // start was pushed a whole cycle on, and the valve (forward biased
+  // already, so with no voltage zero left to fire on) missed its pulse
+  // (valve 4 at 77 ms, here). In continuous conduction each thyristor of a
+  // six-pulse bridge fires once a cycle (Mohan, Undeland & Robbins, 3rd ed.,
+  // §6-4), so successive firings of a valve are one period apart; the
+  // loop's 2ω ripple under 3 % unbalance moves them by far less than 1°.
+  const std::string text = R"(
+supply Grid (a, b, c) Vll = 400 V f = 50 Hz R = 0.5 mohm L = 0.05 mH unbalance = 3 %
+firing F sync = (a, b, c) alpha = 30 deg
+bridge B1 ac = (a, b, c) dc = (p, n) valve = thyristor firing = F Ron = 1 uohm
+current_source Iload (n, p) dc = 100 A
+simulate stop = 0.2 s
+probe Vd = p - n
+)";
+  auto c = testing::Simulate(text);
+  REQUIRE(c.run.summary.status == RunSummary::Status::kCompleted);
+  std::map<std::string, std::vector<double>> fired;
+  for (const auto& e : c.run.events)
+    if (e.on && e.cause == SwitchEvent::Cause::kGate && e.t > 0.02)
+      fired[c.design->circuit.devices()[e.device]->name()].push_back(e.t);
+  REQUIRE(fired.size() == 6);
+  for (const auto& [name, times] : fired) {
+    INFO(name);
+    REQUIRE(times.size() >= 8);  // 180 ms
+    for (std::size_t k = 1; k < times.size(); ++k) {
+      INFO("firings at " << times[k - 1] << " s and " << times[k] << " s");
+      REQUIRE(std::abs((times[k] - times[k - 1]) * kF - 1.0) * 360.0 < 1.0);
+    }
+  }
 }
 
 TEST_CASE("ATurnOffTimeLongerThanTheExtinctionIntervalCausesCommutationFailure",
