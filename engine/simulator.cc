@@ -451,6 +451,7 @@ class Run {
       // Samples inside the relaxation step take its end state (the step is
       // far shorter than the sample interval).
       EmitStateSamples(t, y, yp);
+      if (options_.events.restart_derivative_from_step) DerivativeFromStep(t, h_relax);
     }
     void* mem = ida_.get();
     // IDA would otherwise restart from a step sized by ‖y'‖ (often 1 ns
@@ -468,6 +469,21 @@ class Run {
     ArmStopTime(t);
     SetRootDirections();
     return true;
+  }
+
+  // Replaces the differential unknowns' y' at the restart state (t, y) by
+  // the difference quotient of a backward-Euler step of h from it, a step
+  // that is not kept (EngineOptions::Events::restart_derivative_from_step).
+  // The algebraic y' stay as the consistent solve left them (zero).
+  void DerivativeFromStep(double t, double h) {
+    const double* y = N_VGetArrayPointer(y_.get());
+    double* yp = N_VGetArrayPointer(yp_.get());
+    derivative_step_.assign(y, y + n_);
+    std::string error;
+    // A singular matrix here would have failed the relaxation step already;
+    // if it does, the consistent y' stay.
+    if (!mna_.BackwardEulerStep(t, h, derivative_step_.data(), &error)) return;
+    for (int k : mna_.differential_indices()) yp[k] = (derivative_step_[k] - y[k]) / h;
   }
 
   // IDA failing its very first step after an event (the error or the
@@ -1452,6 +1468,7 @@ class Run {
   std::vector<ValveRef> valves_;
   std::vector<std::uint8_t> states_;
   std::vector<double> atol_;
+  std::vector<double> derivative_step_;  // scratch of DerivativeFromStep
   double v_ref_ = 1.0, i_ref_ = 1.0, eps_v_ = 0.0, eps_i_ = 0.0;
 
   double period_ = 0.0;

@@ -181,19 +181,25 @@ current_source Iload (n, p) dc = 100 A
 simulate stop = 0.2 s
 probe Vd = p - n
 )";
-  auto c = testing::Simulate(text);
-  REQUIRE(c.run.summary.status == RunSummary::Status::kCompleted);
-  std::map<std::string, std::vector<double>> fired;
-  for (const auto& e : c.run.events)
-    if (e.on && e.cause == SwitchEvent::Cause::kGate && e.t > 0.02)
-      fired[c.design->circuit.devices()[e.device]->name()].push_back(e.t);
-  REQUIRE(fired.size() == 6);
-  for (const auto& [name, times] : fired) {
-    INFO(name);
-    REQUIRE(times.size() >= 8);  // 180 ms
-    for (std::size_t k = 1; k < times.size(); ++k) {
-      INFO("firings at " << times[k - 1] << " s and " << times[k] << " s");
-      REQUIRE(std::abs((times[k] - times[k - 1]) * kF - 1.0) * 360.0 < 1.0);
+  // The step pattern after each event matters: both ways of restarting
+  // IDA (EngineOptions::Events::restart_derivative_from_step) are tried.
+  for (bool derivative_from_step : {true, false}) {
+    EngineOptions options;
+    options.events.restart_derivative_from_step = derivative_from_step;
+    auto c = testing::Simulate(text, options);
+    REQUIRE(c.run.summary.status == RunSummary::Status::kCompleted);
+    std::map<std::string, std::vector<double>> fired;
+    for (const auto& e : c.run.events)
+      if (e.on && e.cause == SwitchEvent::Cause::kGate && e.t > 0.02)
+        fired[c.design->circuit.devices()[e.device]->name()].push_back(e.t);
+    REQUIRE(fired.size() == 6);
+    for (const auto& [name, times] : fired) {
+      INFO("derivative from a step: " << derivative_from_step << ", " << name);
+      REQUIRE(times.size() >= 8);  // 180 ms
+      for (std::size_t k = 1; k < times.size(); ++k) {
+        INFO("firings at " << times[k - 1] << " s and " << times[k] << " s");
+        REQUIRE(std::abs((times[k] - times[k - 1]) * kF - 1.0) * 360.0 < 1.0);
+      }
     }
   }
 }
