@@ -11,12 +11,12 @@
 #include <fmt/format.h>
 #include <unistd.h>
 
+#include <array>
 #include <chrono>
+#include <cmath>
 #include <filesystem>
 #include <fstream>
 #include <map>
-#include <array>
-#include <cmath>
 #include <nlohmann/json.hpp>
 #include <regex>
 #include <sstream>

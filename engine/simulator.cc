@@ -957,7 +957,6 @@ class Run {
       Pll& p = pll_[f];
       const double h = t - p.t;
       if (h <= 0) continue;
-      const double old_speed = p.omega;
       const double theta = p.theta + p.omega * h;  // predicted
       const auto [alpha, beta] = Clarke(fr, y);
       const double vd = alpha * std::cos(theta) + beta * std::sin(theta);
@@ -979,13 +978,13 @@ class Run {
       // positive already, would have no sign change left to fire on. (A
       // start already taken, inferred back from the new angle within a
       // thousandth of a period, is not.)
-      const double speed = std::max(old_speed, p.omega);
       for (const auto& ref : valves_) {
         const GateRef& g = ref.valve->gate();
         if (ref.valve->type() != Valve::Type::kThyristor || g.firing != static_cast<int>(f)) continue;
         const double x = PulseAngle(g, t);
+        const double start = t - x / p.omega;
         const bool at_t = x > 2 * std::numbers::pi - 1e-9;
-        const bool in_step = x <= speed * h && t - x / p.omega > last_gate_edge_ + 1e-3 * period_;
+        const bool in_step = start >= t - h && start > last_gate_edge_ + 1e-3 * period_;
         if (at_t || in_step) pulse_due_now_ = true;
       }
     }

@@ -71,10 +71,9 @@ TEST_CASE("TheRegulatorSamplesOncePerPulseAndHoldsOneDelayAtSteadyState", "[thyr
   // integrates is zero, so every pulse is fired at the same delay (common
   // practice for a drive's current loop, which samples once per pulse;
   // the sampling itself is checked in the next test). The delays in the
-  // window, from the located turn-ons
-  // after each valve's natural instant, must agree to 0.02 degrees, about
-  // 1 µs at 50 Hz: the timing resolution commonly asked of a digital firing
-  // circuit (common practice).
+  // window, from the located turn-ons after each valve's natural instant,
+  // must agree to 0.02 degrees, about 1 µs at 50 Hz: the timing resolution
+  // commonly asked of a digital firing circuit (common practice).
   auto c = testing::Simulate(DriveLoop("simulate stop = 1 s\nsteady cycles = 2\n"));
   REQUIRE(c.run.summary.steady_reached);
   const auto& group = c.design->circuit.valve_groups().at(0);
