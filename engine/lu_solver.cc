@@ -277,4 +277,34 @@ void LuSolver::Solve(const double* b, double* x) {
   for (int k = 0; k < n_; ++k) x[column_order_[k]] = w[k];
 }
 
+void LuSolver::SolveTransposed(const double* c, double* x) {
+  if (supernodal_) {
+    work_ = Eigen::Map<const Eigen::VectorXd>(c, n_);
+    Eigen::Map<Eigen::VectorXd>(x, n_) = sparse_lu_.transpose().solve(work_);
+    return;
+  }
+  // Aᵀ = Q·Uᵀ·Lᵀ·P: w = Qᵀ·c, w ← U⁻ᵀ·w, w ← L⁻ᵀ·w, x = Pᵀ·w. A column of
+  // U or L is a row of its transpose, so each step is a dot product.
+  const Plan& plan = plans_[active_];
+  const int* lower_start = plan.lower_start.data();
+  const int* lower_rows = plan.lower_rows.data();
+  const double* lower_values = plan.lower_values.data();
+  const int* upper_start = plan.upper_start.data();
+  const int* upper_rows = plan.upper_rows.data();
+  const double* upper_values = plan.upper_values.data();
+  double* w = work_.data();
+  for (int k = 0; k < n_; ++k) w[k] = c[column_order_[k]];
+  for (int k = 0; k < n_; ++k) {
+    double sum = w[k];
+    for (int q = upper_start[k]; q < upper_start[k + 1]; ++q) sum -= upper_values[q] * w[upper_rows[q]];
+    w[k] = sum / plan.diagonal[k];
+  }
+  for (int k = n_ - 1; k >= 0; --k) {
+    double sum = w[k];
+    for (int q = lower_start[k]; q < lower_start[k + 1]; ++q) sum -= lower_values[q] * w[lower_rows[q]];
+    w[k] = sum;
+  }
+  for (int i = 0; i < n_; ++i) x[i] = w[plan.pivot_step[i]];
+}
+
 }  // namespace lcc

@@ -61,6 +61,9 @@ class LuSolver {
   bool Factorize(const double* values);
   // x = A⁻¹·b for the last factorised A (x and b may alias).
   void Solve(const double* b, double* x);
+  // x = A⁻ᵀ·c for the last factorised A (x and c may alias): the same
+  // factors used the other way round, for one row of A⁻¹ at a time.
+  void SolveTransposed(const double* c, double* x);
 
   bool supernodal() const { return supernodal_; }
   long analyses() const { return analyses_; }

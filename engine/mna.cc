@@ -81,6 +81,7 @@ MnaSystem::MnaSystem(const Circuit& circuit, const LuOptions& lu) : circuit_(&ci
     for (int p = pattern_.outerIndexPtr()[col]; p < pattern_.outerIndexPtr()[col + 1]; ++p)
       if (c_values_[p] != 0.0) differential_[col] = 1;
     if (differential_[col]) differential_indices_.push_back(col);
+    else output_rows_.push_back(col);
   }
   for (const auto& d : circuit.devices())
     if (d->has_sources()) {
@@ -242,19 +243,35 @@ bool MnaSystem::BackwardEulerStep(double t, double h, double* y, std::string* er
 
 namespace lcc {
 
+void MnaSystem::SetOutputUnknowns(const std::vector<int>& unknowns) {
+  output_rows_.clear();
+  for (int k : unknowns)
+    if (k >= 0 && k < n_ && !differential_[k]) output_rows_.push_back(k);
+  std::sort(output_rows_.begin(), output_rows_.end());
+  output_rows_.erase(std::unique(output_rows_.begin(), output_rows_.end()), output_rows_.end());
+  response_valid_ = false;
+  direct_recomputations_ = 0;
+}
+
 void MnaSystem::RecomputeAlgebraic(double t, double* y) {
   // y_alg = M⁻¹·(b(t) − G_d·y_d) = Σ_r b_r(t)·(M⁻¹e_r) − Σ_d y_d·(M⁻¹G[:,d]).
-  // The responses make each sample a few short vector sums instead of a
-  // solve, but cost one solve each to build, and are lost at the next
-  // event. Which pays depends on how many samples fall between events, not
-  // known in advance; so the first nr + nd samples after an event are
-  // solved directly and only then are the responses built (the rent-or-buy
-  // rule: never more than twice the cost of the better choice in hindsight).
+  // The responses make each sample one short matrix-vector product instead
+  // of a solve. They cost solves to build, and are lost at the next event:
+  // one solve per response column (M·z = e_r or G[:,d]) or, when fewer
+  // unknowns are read than there are columns, one transposed solve per
+  // unknown read (Mᵀ·x = e_k gives row k of M⁻¹). Which pays depends on how
+  // many samples fall between events, not known in advance; so the first
+  // samples after an event, as many as the build's solves, are solved
+  // directly and only then are the responses built (the rent-or-buy rule:
+  // never more than twice the cost of the better choice in hindsight).
   const int* outer = pattern_.outerIndexPtr();
   const int* inner = pattern_.innerIndexPtr();
   const int nr = static_cast<int>(source_rows_.size());
   const int nd = static_cast<int>(differential_indices_.size());
-  if (!response_valid_ && direct_recomputations_ < nr + nd) {
+  const int m = static_cast<int>(output_rows_.size());
+  if (m == 0) return;
+  const bool by_rows = m < nr + nd;
+  if (!response_valid_ && direct_recomputations_ < std::min(m, nr + nd)) {
     ++direct_recomputations_;
     b_.assign(n_, 0.0);
     Sources(t, b_.data());
@@ -262,34 +279,48 @@ void MnaSystem::RecomputeAlgebraic(double t, double* y) {
       for (int p = outer[col]; p < outer[col + 1]; ++p) b_[inner[p]] -= g_values_[p] * y[col];
     z_.resize(n_);
     consistency_lu_->Solve(b_.data(), z_.data());
-    for (int k = 0; k < n_; ++k)
-      if (!differential_[k]) y[k] = z_[k];
+    for (int k : output_rows_) y[k] = z_[k];
     return;
   }
   if (!response_valid_) {
-    response_.resize(n_, nr + nd);
-    for (int k = 0; k < nr + nd; ++k) {
-      rhs_.setZero(n_);
-      if (k < nr) {
-        rhs_[source_rows_[k]] = 1.0;
-      } else {
-        const int col = differential_indices_[k - nr];
-        for (int p = outer[col]; p < outer[col + 1]; ++p) rhs_[inner[p]] = g_values_[p];
+    response_.resize(m, nr + nd);
+    z_.resize(n_);
+    if (by_rows) {
+      for (int i = 0; i < m; ++i) {
+        rhs_.setZero(n_);
+        rhs_[output_rows_[i]] = 1.0;
+        consistency_lu_->SolveTransposed(rhs_.data(), z_.data());
+        for (int k = 0; k < nr; ++k) response_(i, k) = z_[source_rows_[k]];
+        for (int k = 0; k < nd; ++k) {
+          const int col = differential_indices_[k];
+          double sum = 0.0;
+          for (int p = outer[col]; p < outer[col + 1]; ++p) sum += z_[inner[p]] * g_values_[p];
+          response_(i, nr + k) = sum;
+        }
       }
-      consistency_lu_->Solve(rhs_.data(), response_.col(k).data());
+    } else {
+      for (int k = 0; k < nr + nd; ++k) {
+        rhs_.setZero(n_);
+        if (k < nr) {
+          rhs_[source_rows_[k]] = 1.0;
+        } else {
+          const int col = differential_indices_[k - nr];
+          for (int p = outer[col]; p < outer[col + 1]; ++p) rhs_[inner[p]] = g_values_[p];
+        }
+        consistency_lu_->Solve(rhs_.data(), z_.data());
+        for (int i = 0; i < m; ++i) response_(i, k) = z_[output_rows_[i]];
+      }
     }
     response_valid_ = true;
   }
   b_.assign(n_, 0.0);
   Sources(t, b_.data());
-  z_.setZero(n_);
-  for (int k = 0; k < nr; ++k) {
-    const double w = b_[source_rows_[k]];
-    if (w != 0.0) z_ += w * response_.col(k);
-  }
-  for (int k = 0; k < nd; ++k) z_ -= y[differential_indices_[k]] * response_.col(nr + k);
-  for (int k = 0; k < n_; ++k)
-    if (!differential_[k]) y[k] = z_[k];
+  drive_.resize(nr + nd);
+  z_.resize(n_);
+  for (int k = 0; k < nr; ++k) drive_[k] = b_[source_rows_[k]];
+  for (int k = 0; k < nd; ++k) drive_[nr + k] = -y[differential_indices_[k]];
+  z_.head(m).noalias() = response_ * drive_;
+  for (int i = 0; i < m; ++i) y[output_rows_[i]] = z_[i];
 }
 
 }  // namespace lcc

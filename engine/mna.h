@@ -72,6 +72,11 @@ class MnaSystem {
   // only be as good as the interpolating polynomial's order, which in a
   // circuit with few states may be 1.
   void RecomputeAlgebraic(double t, double* y);
+  // Limits RecomputeAlgebraic() to the algebraic unknowns among `unknowns`
+  // (indices into y; differential ones are ignored), leaving the other
+  // entries of y as they are: an output that reads a few unknowns pays for
+  // those only. Until it is called, every algebraic unknown is recomputed.
+  void SetOutputUnknowns(const std::vector<int>& unknowns);
 
   // One backward-Euler step of size h from (t, y): y ← y(t + h), solving
   //     (G + C/h)·y₁ = b(t + h) + (C/h)·y₀.
@@ -96,11 +101,15 @@ class MnaSystem {
 
   std::vector<double> consistency_values_;
   Eigen::VectorXd rhs_, z_;
-  // For RecomputeAlgebraic(): the rows b(t) can touch, and, for the present
-  // factorisation, the responses M⁻¹·e_r to each and M⁻¹·G[:,d] to each
-  // differential unknown d (one column each), rebuilt after each event.
+  // For RecomputeAlgebraic(): the algebraic unknowns it recomputes, the
+  // rows b(t) can touch, and, for the present factorisation, the response
+  // of each recomputed unknown (a row) to each such b_r and to each
+  // differential unknown d (a column each: the entries of M⁻¹·e_r and
+  // M⁻¹·G[:,d]), rebuilt after each event.
+  std::vector<int> output_rows_;
   std::vector<int> source_rows_;
-  Eigen::MatrixXd response_;
+  Eigen::Matrix<double, Eigen::Dynamic, Eigen::Dynamic, Eigen::RowMajor> response_;
+  Eigen::VectorXd drive_;  // [b_r(t); −y_d], what the responses multiply
   bool response_valid_ = false;
   int direct_recomputations_ = 0;  // samples solved directly since the last factorisation
   std::unique_ptr<LuSolver> consistency_lu_;

@@ -93,6 +93,7 @@ class Run {
         mna_(circuit, options.lu), n_(mna_.size()), trial_start_(trial_start) {
     std::stable_sort(actions_.begin(), actions_.end(),
                      [](const EngineAction& a, const EngineAction& b) { return a.t < b.t; });
+    SelectOutputs();
   }
 
   RunResult Execute() {
@@ -776,6 +777,7 @@ class Run {
           }
           result_.final_alpha = alpha_now_;
           sink_.OnProbesChange(study_->probes);
+          SelectOutputs();
           break;
         }
       }
@@ -1033,6 +1035,13 @@ class Run {
 
   // -- outputs and cycles -------------------------------------------------------
 
+  // What the sink reads decides what each sample computes.
+  void SelectOutputs() {
+    const auto read = sink_.unknowns_read();
+    reads_nothing_ = read && read->empty();
+    if (read) mna_.SetOutputUnknowns(*read);
+  }
+
   void EmitSamples(double t, double dt) {
     if (trial_start_) return;  // a trial period of shooting keeps no samples
     void* mem = ida_.get();
@@ -1056,10 +1065,10 @@ class Run {
       const double ts = next_sample_ * dt;
       if (ts > t + slack || ts > t_end_ + slack) break;
       const double tq = std::min(ts, t);
-      Check(IDAGetDky(mem, tq, 0, work_.get()), "IDAGetDky");
-      if (recompute_algebraic) mna_.RecomputeAlgebraic(tq, N_VGetArrayPointer(work_.get()));
+      if (!reads_nothing_) Check(IDAGetDky(mem, tq, 0, work_.get()), "IDAGetDky");
+      if (recompute_algebraic && !reads_nothing_) mna_.RecomputeAlgebraic(tq, N_VGetArrayPointer(work_.get()));
       const double* yp = nullptr;
-      if (wants_derivatives_) {
+      if (wants_derivatives_ && !reads_nothing_) {
         Check(IDAGetDky(mem, tq, 1, work_p_.get()), "IDAGetDky");
         yp = N_VGetArrayPointer(work_p_.get());
       }
@@ -1508,6 +1517,7 @@ class Run {
   std::vector<double> last_cycle_peak_;  // each state's peak over the cycle before the shot
 
   const bool wants_derivatives_ = sink_.wants_derivatives();
+  bool reads_nothing_ = false;  // the sink reads no unknown: samples need no interpolation (SelectOutputs)
   // LCCSIM_TRACE=1 in the environment prints every valve switching.
   const bool trace_ = std::getenv("LCCSIM_TRACE") != nullptr;
   double last_event_time_ = -1.0;

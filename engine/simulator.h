@@ -32,6 +32,7 @@
 
 #include <atomic>
 #include <cstdint>
+#include <optional>
 #include <string>
 #include <vector>
 
@@ -143,6 +144,11 @@ class SampleSink {
   // `yp` is null unless wants_derivatives() says the sink needs it.
   virtual void OnSample(double t, const double* y, const double* yp) = 0;
   virtual bool wants_derivatives() const { return true; }
+  // The unknowns OnSample reads, as indices into y (and y'); nullopt: all of
+  // them. Only these are sure to be exact in the y it is given (the
+  // engine recomputes them, MnaSystem::SetOutputUnknowns); the others are
+  // unspecified. A sink that reads none costs no interpolation at all.
+  virtual std::optional<std::vector<int>> unknowns_read() const { return std::nullopt; }
   // A case action changed parameter values: probes are recompiled for the
   // new circuit (a resistor's current is v/R), same names and order.
   virtual void OnProbesChange(const std::vector<Probe>& /*probes*/) {}

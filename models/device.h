@@ -52,6 +52,11 @@ struct LinearForm {
     for (const auto& [k, a] : yp) v += a * yp_values[k];
     return v;
   }
+  // The unknowns it reads (of y and of y'), appended to `out`.
+  void AppendUnknowns(std::vector<int>* out) const {
+    for (const auto& term : y) out->push_back(term.first);
+    for (const auto& term : yp) out->push_back(term.first);
+  }
 };
 
 // How an element counts in the topology checks.

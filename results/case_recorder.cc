@@ -17,6 +17,12 @@ CaseRecorder::CaseRecorder(const std::vector<Probe>& probes, const AnalysisChann
   columns_.assign(width_, std::vector<double>(capacity_, 0.0));
 }
 
+std::optional<std::vector<int>> CaseRecorder::unknowns_read() const {
+  std::vector<int> read = *probes_.unknowns_read();
+  for (const auto& channel : channels_.channels) channel.form.AppendUnknowns(&read);
+  return read;
+}
+
 void CaseRecorder::OnSample(double t, const double* y, const double* yp) {
   probes_.OnSample(t, y, yp);
   if (width_ == 0) return;

@@ -10,6 +10,7 @@
 #pragma once
 
 #include <memory>
+#include <optional>
 #include <span>
 #include <vector>
 
@@ -28,6 +29,7 @@ class CaseRecorder final : public SampleSink {
                double from = 0.0, double to = 0.0, RecorderOptions probes_options = {});
 
   bool wants_derivatives() const override { return probes_.wants_derivatives(); }
+  std::optional<std::vector<int>> unknowns_read() const override;
   void OnSample(double t, const double* y, const double* yp) override;
   void OnProbesChange(const std::vector<Probe>& probes) override { probes_.OnProbesChange(probes); }
 

@@ -72,6 +72,13 @@ ProbeRecorder::~ProbeRecorder() {
   if (spool_fd_ >= 0) ::close(spool_fd_);
 }
 
+std::optional<std::vector<int>> ProbeRecorder::unknowns_read() const {
+  std::vector<int> read;
+  for (const auto& probe : *probes_)
+    for (const auto& slot : probe.slots) slot.AppendUnknowns(&read);
+  return read;
+}
+
 void ProbeRecorder::OnSample(double t, const double* y, const double* yp) {
   memory_.push_back(t);
   for (std::size_t k = 0; k + 1 < width_; ++k) {

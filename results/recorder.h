@@ -14,6 +14,7 @@
 
 #include <cstddef>
 #include <functional>
+#include <optional>
 #include <string>
 #include <vector>
 
@@ -39,6 +40,7 @@ class ProbeRecorder final : public SampleSink {
   ProbeRecorder& operator=(const ProbeRecorder&) = delete;
 
   bool wants_derivatives() const override { return derivatives_; }
+  std::optional<std::vector<int>> unknowns_read() const override;
   void OnSample(double t, const double* y, const double* yp) override;
   // The same probes compiled for a circuit whose values changed.
   void OnProbesChange(const std::vector<Probe>& probes) override {

@@ -4,8 +4,10 @@
 // Fundamentals of Electric Circuits, 5th ed., §9.5). `steady` must find it,
 // record whole cycles, and the recorded amplitude must match.
 #include <catch2/catch.hpp>
+#include <fmt/format.h>
 #include <cmath>
 #include <numbers>
+#include <string>
 
 #include "tests/test_utilities/run_netlist.h"
 
@@ -64,6 +66,42 @@ probe v = s
   REQUIRE(s.window_end == Approx(0.1));
   REQUIRE(s.window_end - s.window_begin == Approx(1.0 / 60).epsilon(1e-9));
   REQUIRE(c.Window("v").rms == Approx(230).epsilon(1e-5));  // rms of a sine over a whole cycle
+}
+
+TEST_CASE("AlgebraicSamplesBetweenLongStepsFollowTheSource", "[engine][analytic]") {
+  // An AC divider beside a charged capacitor that discharges through
+  // 2 MΩ (τ = 2·10⁶ s): with the only state all but constant, IDA takes its
+  // largest steps (36° here), and its interpolant between them cannot
+  // follow the AC divider's node voltage
+  //   v(m) = E·R2/(R1 + R2) = 50 V·sin(ωt),
+  // nor need it for the DC divider's v(j) = v_C/2 = 5 V·e^(−t/τ) (the
+  // voltage-divider rule and the RC discharge, Alexander & Sadiku,
+  // Fundamentals of Electric Circuits, 5th ed., §2.7 and §7.2). The engine
+  // recomputes each sample from the state: for one unknown read, by one
+  // transposed solve; for several, by one solve per source and state. Every
+  // sample must match, whichever way.
+  const double w = 2 * std::numbers::pi * 50;
+  for (const char* probes : {"probe vm = m", "probe vj = j", "probe vm = m\nprobe vj = j\nprobe vs = s\nprobe ie = E.i"}) {
+    INFO(probes);
+    auto c = testing::Simulate(fmt::format(R"(
+voltage_source E (s, gnd) peak = 100 V f = 50 Hz
+resistor R1 (s, m) R = 10 ohm
+resistor R2 (m, gnd) R = 10 ohm
+capacitor C (k, gnd) C = 1 F v0 = 10 V
+resistor R3 (k, j) R = 1 Mohm
+resistor R4 (j, gnd) R = 1 Mohm
+simulate stop = 60 ms sample = 100 us max_step = 2 ms reltol = 1e-7
+{}
+)", probes));
+    const auto& t = c.time;
+    REQUIRE(t.size() == 601);
+    const bool reads_m = std::string(probes).find("vm") != std::string::npos;
+    const bool reads_j = std::string(probes).find("vj") != std::string::npos;
+    for (std::size_t k = 0; k < t.size(); ++k) {
+      if (reads_m) REQUIRE(std::abs(c.Column("vm")[k] - 50.0 * std::sin(w * t[k])) <= 1e-6 * 50.0);
+      if (reads_j) REQUIRE(std::abs(c.Column("vj")[k] - 5.0 * std::exp(-t[k] / 2e6)) <= 1e-6 * 5.0);
+    }
+  }
 }
 
 }  // namespace
