@@ -103,6 +103,7 @@ void MnaSystem::SetSwitchStates(const std::vector<std::uint8_t>& states) {
   states_ = states;
   consistency_factored_ = false;
   step_factored_h_ = 0.0;
+  present_response_ = -1;
   std::fill(g_values_.begin(), g_values_.end(), 0.0);
   ValueSink sink(g_slot_, c_slot_, g_values_.data(), nullptr);
   for (const auto& d : circuit_->devices()) {
@@ -137,8 +138,8 @@ bool MnaSystem::Rebind(const Circuit& other, std::string* error) {
     if (d->has_sources()) source_devices_.push_back(d.get());
   consistency_factored_ = false;
   step_factored_h_ = 0.0;
-  response_valid_ = false;
-  direct_recomputations_ = 0;
+  kept_responses_.clear();  // the values changed: every configuration's responses did
+  present_response_ = -1;
   const std::vector<std::uint8_t> states = states_;
   states_.clear();  // forces the re-stamp
   SetSwitchStates(states);
@@ -186,8 +187,7 @@ bool MnaSystem::SolveConsistent(double t, double* y, double* yp, std::string* er
     }
   }
   if (!consistency_factored_) {
-    response_valid_ = false;
-    direct_recomputations_ = 0;
+    present_response_ = -1;
     if (!consistency_lu_->Factorize(m)) {
       *error = fmt::format("the circuit equations are singular at t = {:.9g} s in the present valve states", t);
       return false;
@@ -249,21 +249,43 @@ void MnaSystem::SetOutputUnknowns(const std::vector<int>& unknowns) {
     if (k >= 0 && k < n_ && !differential_[k]) output_rows_.push_back(k);
   std::sort(output_rows_.begin(), output_rows_.end());
   output_rows_.erase(std::unique(output_rows_.begin(), output_rows_.end()), output_rows_.end());
-  response_valid_ = false;
-  direct_recomputations_ = 0;
+  kept_responses_.clear();
+  present_response_ = -1;
+}
+
+MnaSystem::KeptResponse& MnaSystem::ResponseForPresentStates() {
+  if (present_response_ < 0) {
+    for (int i = 0; i < static_cast<int>(kept_responses_.size()); ++i)
+      if (kept_responses_[i].states == states_) present_response_ = i;
+  }
+  if (present_response_ < 0) {
+    // A configuration not seen before. Make room by dropping the least
+    // recently used ones, as many as the byte budget needs.
+    const std::size_t bytes = sizeof(double) * output_rows_.size() * (source_rows_.size() + differential_indices_.size());
+    while (!kept_responses_.empty() && (kept_responses_.size() + 1) * bytes > kKeptResponseBytes) {
+      auto oldest = std::min_element(kept_responses_.begin(), kept_responses_.end(),
+                                     [](const KeptResponse& a, const KeptResponse& b) { return a.last_used < b.last_used; });
+      kept_responses_.erase(oldest);
+    }
+    kept_responses_.push_back(KeptResponse{states_, 0, 0, false, {}});
+    present_response_ = static_cast<int>(kept_responses_.size()) - 1;
+  }
+  KeptResponse& kept = kept_responses_[present_response_];
+  kept.last_used = ++response_clock_;
+  return kept;
 }
 
 void MnaSystem::RecomputeAlgebraic(double t, double* y) {
   // y_alg = M⁻¹·(b(t) − G_d·y_d) = Σ_r b_r(t)·(M⁻¹e_r) − Σ_d y_d·(M⁻¹G[:,d]).
   // The responses make each sample one short matrix-vector product instead
-  // of a solve. They cost solves to build, and are lost at the next event:
-  // one solve per response column (M·z = e_r or G[:,d]) or, when fewer
-  // unknowns are read than there are columns, one transposed solve per
-  // unknown read (Mᵀ·x = e_k gives row k of M⁻¹). Which pays depends on how
-  // many samples fall between events, not known in advance; so the first
-  // samples after an event, as many as the build's solves, are solved
-  // directly and only then are the responses built (the rent-or-buy rule:
-  // never more than twice the cost of the better choice in hindsight).
+  // of a solve. They cost solves to build: one per response column
+  // (M·z = e_r or G[:,d]) or, when fewer unknowns are read than there are
+  // columns, one transposed solve per unknown read (Mᵀ·x = e_k gives row k
+  // of M⁻¹). Whether that pays depends on how many samples the
+  // configuration will see, not known in advance; so its first samples, as
+  // many as the build's solves, are solved directly and only then are the
+  // responses built (the rent-or-buy rule: never more than twice the cost
+  // of the better choice in hindsight), to be kept for its later returns.
   const int* outer = pattern_.outerIndexPtr();
   const int* inner = pattern_.innerIndexPtr();
   const int nr = static_cast<int>(source_rows_.size());
@@ -271,8 +293,9 @@ void MnaSystem::RecomputeAlgebraic(double t, double* y) {
   const int m = static_cast<int>(output_rows_.size());
   if (m == 0) return;
   const bool by_rows = m < nr + nd;
-  if (!response_valid_ && direct_recomputations_ < std::min(m, nr + nd)) {
-    ++direct_recomputations_;
+  KeptResponse& kept = ResponseForPresentStates();
+  if (!kept.built && kept.direct < std::min(m, nr + nd)) {
+    ++kept.direct;
     b_.assign(n_, 0.0);
     Sources(t, b_.data());
     for (int col : differential_indices_)
@@ -282,20 +305,21 @@ void MnaSystem::RecomputeAlgebraic(double t, double* y) {
     for (int k : output_rows_) y[k] = z_[k];
     return;
   }
-  if (!response_valid_) {
-    response_.resize(m, nr + nd);
+  auto& response = kept.rows;
+  if (!kept.built) {
+    response.resize(m, nr + nd);
     z_.resize(n_);
     if (by_rows) {
       for (int i = 0; i < m; ++i) {
         rhs_.setZero(n_);
         rhs_[output_rows_[i]] = 1.0;
         consistency_lu_->SolveTransposed(rhs_.data(), z_.data());
-        for (int k = 0; k < nr; ++k) response_(i, k) = z_[source_rows_[k]];
+        for (int k = 0; k < nr; ++k) response(i, k) = z_[source_rows_[k]];
         for (int k = 0; k < nd; ++k) {
           const int col = differential_indices_[k];
           double sum = 0.0;
           for (int p = outer[col]; p < outer[col + 1]; ++p) sum += z_[inner[p]] * g_values_[p];
-          response_(i, nr + k) = sum;
+          response(i, nr + k) = sum;
         }
       }
     } else {
@@ -308,10 +332,10 @@ void MnaSystem::RecomputeAlgebraic(double t, double* y) {
           for (int p = outer[col]; p < outer[col + 1]; ++p) rhs_[inner[p]] = g_values_[p];
         }
         consistency_lu_->Solve(rhs_.data(), z_.data());
-        for (int i = 0; i < m; ++i) response_(i, k) = z_[output_rows_[i]];
+        for (int i = 0; i < m; ++i) response(i, k) = z_[output_rows_[i]];
       }
     }
-    response_valid_ = true;
+    kept.built = true;
   }
   b_.assign(n_, 0.0);
   Sources(t, b_.data());
@@ -319,7 +343,7 @@ void MnaSystem::RecomputeAlgebraic(double t, double* y) {
   z_.resize(n_);
   for (int k = 0; k < nr; ++k) drive_[k] = b_[source_rows_[k]];
   for (int k = 0; k < nd; ++k) drive_[nr + k] = -y[differential_indices_[k]];
-  z_.head(m).noalias() = response_ * drive_;
+  z_.head(m).noalias() = response * drive_;
   for (int i = 0; i < m; ++i) y[output_rows_[i]] = z_[i];
 }
 

@@ -102,16 +102,27 @@ class MnaSystem {
   std::vector<double> consistency_values_;
   Eigen::VectorXd rhs_, z_;
   // For RecomputeAlgebraic(): the algebraic unknowns it recomputes, the
-  // rows b(t) can touch, and, for the present factorisation, the response
+  // rows b(t) can touch, and, per switch-state configuration, the response
   // of each recomputed unknown (a row) to each such b_r and to each
   // differential unknown d (a column each: the entries of M⁻¹·e_r and
-  // M⁻¹·G[:,d]), rebuilt after each event.
+  // M⁻¹·G[:,d]). A converter goes through the same few configurations
+  // every cycle, so the responses are kept, not rebuilt after each event:
+  // up to kKeptResponseBytes of them, the least recently used dropped first.
+  struct KeptResponse {
+    std::vector<std::uint8_t> states;
+    long last_used = 0;
+    int direct = 0;      // samples solved directly in this configuration so far
+    bool built = false;  // `rows` holds the responses
+    Eigen::Matrix<double, Eigen::Dynamic, Eigen::Dynamic, Eigen::RowMajor> rows;
+  };
+  static constexpr std::size_t kKeptResponseBytes = std::size_t{16} << 20;
+  KeptResponse& ResponseForPresentStates();
   std::vector<int> output_rows_;
   std::vector<int> source_rows_;
-  Eigen::Matrix<double, Eigen::Dynamic, Eigen::Dynamic, Eigen::RowMajor> response_;
+  std::vector<KeptResponse> kept_responses_;
+  int present_response_ = -1;  // index into kept_responses_ for states_ (−1: not looked up)
+  long response_clock_ = 0;
   Eigen::VectorXd drive_;  // [b_r(t); −y_d], what the responses multiply
-  bool response_valid_ = false;
-  int direct_recomputations_ = 0;  // samples solved directly since the last factorisation
   std::unique_ptr<LuSolver> consistency_lu_;
   std::unique_ptr<LuSolver> step_lu_;
   // The factorisations depend only on the switch states (and the step h):

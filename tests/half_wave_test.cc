@@ -5,8 +5,10 @@
 // Mohan, Undeland & Robbins, Power Electronics, 3rd ed., §5-2).
 // Required: the simulated extinction angle within 0.01°.
 #include <catch2/catch.hpp>
+#include <algorithm>
 #include <cmath>
 #include <numbers>
+#include <string>
 
 #include "tests/test_utilities/run_netlist.h"
 
@@ -46,6 +48,33 @@ probe i = L.i
   REQUIRE(std::abs(beta_sim - beta) * 180 / std::numbers::pi < 0.01);
   // It turned on at the start of the positive half cycle.
   REQUIRE(c.SwitchTime("D", true, 0) < 1e-6);
+}
+
+TEST_CASE("HalfWaveResistiveSamplesFollowTheSourceEveryHalfCycle", "[engine][analytic][valve]") {
+  // A diode into a resistor: v_R = v for v > 0, and 0 while the diode
+  // blocks (Hart, §3.2). Beside it, a capacitor discharging through 1 MΩ
+  // (τ = 10⁶ s) is the only state, all but constant, so IDA takes its
+  // largest steps (36° here) and every sample is recomputed from it, in the
+  // conducting and the blocking configuration alike. Each configuration
+  // comes back every cycle and keeps its responses (MnaSystem); over five
+  // cycles every sample must match, read alone or with others.
+  const double w = 2 * std::numbers::pi * 50.0;
+  for (const char* probes : {"probe vk = k", "probe vk = k\nprobe vs = s\nprobe ie = E.i\nprobe vj = j"}) {
+    INFO(probes);
+    auto c = testing::Simulate(std::string(R"(
+voltage_source E (s, gnd) peak = 100 V f = 50 Hz
+diode D (s, k) Ron = 1 uohm Roff = 1 Gohm
+resistor R (k, gnd) R = 10 ohm
+capacitor C (j, gnd) C = 1 F v0 = 10 V
+resistor Rj (j, gnd) R = 1 Mohm
+simulate stop = 100 ms sample = 100 us max_step = 2 ms reltol = 1e-7
+)") + probes);
+    const auto& t = c.time;
+    const auto& vk = c.Column("vk");
+    REQUIRE(t.size() == 1001);
+    for (std::size_t k = 0; k < t.size(); ++k)
+      REQUIRE(std::abs(vk[k] - std::max(0.0, 100.0 * std::sin(w * t[k]))) <= 1e-6 * 100.0);
+  }
 }
 
 }  // namespace
