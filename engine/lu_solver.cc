@@ -16,11 +16,19 @@ LuSolver::LuSolver(const SparseMatrix& pattern, const LuOptions& options)
   work_.resize(n_);
   if (supernodal_) return;
   // The column order is the symbolic analysis of this path: done here, once.
-  // AMD on the pattern of A + Aᵀ suits MNA matrices, whose patterns are
-  // nearly symmetric. Eigen's permutation maps old index j to new position
-  // indices()(j); the elimination needs the inverse, position → column.
+  // Partial pivoting picks the rows as the values come, so the order must
+  // keep the fill small whatever rows it picks. COLAMD does: it orders the
+  // columns for a sparse Cholesky factor of AᵀA, whose pattern contains
+  // those of L and U under any row interchanges (George & Ng, SIAM J. Sci.
+  // Stat. Comput. 8(6), 1987; Davis, Gilbert, Larimore & Ng, ACM TOMS
+  // 30(3), 2004). A symmetric order (AMD on A + Aᵀ) assumes pivots on the
+  // diagonal, where the valves' fifteen decades do not leave them: on the
+  // pulse benchmarks it gave L and U 587 entries against COLAMD's 394 (12
+  // pulses, 54 unknowns) and 6 009 against 2 916 (48 pulses, 247 unknowns).
+  // Eigen's permutation maps old index j to new position indices()(j);
+  // the elimination needs the inverse, position → column.
   Eigen::PermutationMatrix<Eigen::Dynamic, Eigen::Dynamic, int> permutation;
-  Eigen::AMDOrdering<int>()(sparse_, permutation);
+  Eigen::COLAMDOrdering<int>()(sparse_, permutation);
   column_order_.assign(n_, 0);
   for (int j = 0; j < n_; ++j) column_order_[permutation.indices()(j)] = j;
   ++analyses_;

@@ -4,7 +4,7 @@
 // here (Gilbert & Peierls, SIAM J. Sci. Stat. Comput. 9(5), 1988; laid out
 // in T. A. Davis, "Direct Methods for Sparse Linear Systems", SIAM 2006,
 // ch. 6): columns in a fill-reducing order found once from the pattern
-// (approximate minimum degree on A + Aᵀ), each column a sparse triangular
+// (column approximate minimum degree, COLAMD), each column a sparse triangular
 // solve against the L built so far, and partial pivoting (the largest entry
 // among the rows not yet pivoted: valve resistances span fifteen decades,
 // so the pivot rows change with the switch states).
