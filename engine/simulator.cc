@@ -76,6 +76,9 @@ struct CycleState {
   // the probe's integral since its last sample and the probe's value at the
   // boundary, and the time since that sample.
   std::vector<double> alpha, integral, regulated_integral, last_value, since_sample;
+  // The absolute tolerances of the run it was taken from (empty: the
+  // circuit-wide ones), so that a trial period integrates as the run does.
+  std::vector<double> atol;
 };
 
 // Takes samples and keeps none (the trial periods of shooting).
@@ -181,6 +184,7 @@ class Run {
       for (int k = 0; k < d->num_branches(); ++k) a[d->branch(k)] = unit * d->unknown_scale(k, v_ref, i_ref);
     for (int k = 0; k < n_; ++k) idv[k] = mna_.differential()[k] ? 1.0 : 0.0;
     atol_.assign(a, a + n_);
+    next_tolerance_boundary_ = period_;
 
     // Initial state: differential unknowns from i0 / v0, switches as given.
     double* y = N_VGetArrayPointer(y_.get());
@@ -240,6 +244,8 @@ class Run {
     Check(IDAInit(mem, &Run::ResidualFn, 0.0, y_.get(), yp_.get()), "IDAInit");
     Check(IDASetUserData(mem, this), "IDASetUserData");
     Check(IDASetErrHandlerFn(mem, &Run::ErrorFn, this), "IDASetErrHandlerFn");
+    if (trial_start_ && !trial_start_->atol.empty())
+      std::copy(trial_start_->atol.begin(), trial_start_->atol.end(), N_VGetArrayPointer(atol.get()));
     Check(IDASVtolerances(mem, sim.reltol, atol.get()), "IDASVtolerances");
     Check(IDASetId(mem, id.get()), "IDASetId");
     Check(IDASetSuppressAlg(mem, SUNTRUE), "IDASetSuppressAlg");
@@ -325,6 +331,7 @@ class Run {
       if (!pll_.empty() && t < next_gate_edge_) UpdatePlls(t, N_VGetArrayPointer(y_.get()));
       EmitSamples(std::min(t, t_end_), dt);
       TrackCycles(t);
+      TightenTolerances(t);
       result_.summary.t_reached = t;
       if (shoot_now_) {
         shoot_now_ = false;
@@ -461,6 +468,7 @@ class Run {
     IDAGetLastStep(mem, &h_last);
     const double h0 = std::min(result_.summary.max_step_used, h_last) * options_.events.restart_step_fraction;
     Check(IDAReInit(mem, t, y_.get(), yp_.get()), "IDAReInit");
+    ApplyPendingTolerances();
     t_restart_ = t;
     restart_y_.assign(N_VGetArrayPointer(y_.get()), N_VGetArrayPointer(y_.get()) + n_);
     restart_yp_.assign(N_VGetArrayPointer(yp_.get()), N_VGetArrayPointer(yp_.get()) + n_);
@@ -1168,6 +1176,48 @@ class Run {
     }
   }
 
+  // The states' absolute tolerances from the currents and voltages that
+  // actually flow, once a period has shown them
+  // (EngineOptions::Tolerances::scale_from_states). The circuit-wide scale
+  // set at the start (largest voltage over smallest resistance) is safe
+  // but can be thousands of times those currents; then the error test
+  // hardly sees them, and figures such as the overlap angle or the DC
+  // ripple come out off by more than the tolerance asked for, differently
+  // in each cycle.
+  void TightenTolerances(double t) {
+    if (!options_.tolerances.scale_from_states || period_ <= 0 || trial_start_) return;
+    const double* y = N_VGetArrayPointer(y_.get());
+    const auto& diff = mna_.differential_indices();
+    const int nodes = circuit_->num_nodes() - 1;  // unknowns below this are node voltages
+    for (int k : diff) {
+      double& peak = k < nodes ? peak_state_voltage_ : peak_state_current_;
+      peak = std::max(peak, std::abs(y[k]));
+    }
+    if (t < next_tolerance_boundary_) return;
+    next_tolerance_boundary_ = (std::floor(t / period_) + 1.0) * period_;
+    // One scale per kind, not one per state: a state's own size would hold
+    // a magnetising current or a near-idle branch to microamperes, which
+    // the perturbed trial periods of shooting cannot always integrate.
+    const double unit = study_->simulate->reltol * options_.tolerances.abstol_fraction;
+    scaled_atol_ = atol_;
+    for (int k : diff) {
+      const double scaled = unit * (k < nodes ? peak_state_voltage_ : peak_state_current_);
+      if (scaled > 0.0) scaled_atol_[k] = std::min(atol_[k], scaled);
+    }
+    peak_state_voltage_ = peak_state_current_ = 0.0;
+    // IDA takes new tolerances only at a (re)start: the next event's.
+    scaled_atol_pending_ = true;
+  }
+
+  // Hands pending tolerances to IDA, right after an IDAReInit.
+  void ApplyPendingTolerances() {
+    if (!scaled_atol_pending_) return;
+    scaled_atol_pending_ = false;
+    Vector atol(N_VClone(y_.get()));
+    std::copy(scaled_atol_.begin(), scaled_atol_.end(), N_VGetArrayPointer(atol.get()));
+    Check(IDASVtolerances(ida_.get(), study_->simulate->reltol, atol.get()), "IDASVtolerances");
+  }
+
   // -- shooting for the steady state (engine/shooting.h) --------------------
 
   // The firing elements whose delay angle is a state: a current regulator's
@@ -1183,6 +1233,7 @@ class Run {
     for (double r : recover_until_) c.recover_left.push_back(r > t ? r - t : -1.0);
     c.alpha = alpha_now_;
     c.integral = integral_;
+    c.atol = scaled_atol_;
     const std::size_t firings = circuit_->firings().size();
     c.regulated_integral.assign(firings, 0.0);
     c.last_value.assign(firings, 0.0);
@@ -1475,7 +1526,11 @@ class Run {
 
   std::vector<ValveRef> valves_;
   std::vector<std::uint8_t> states_;
-  std::vector<double> atol_;
+  std::vector<double> atol_;  // the circuit-wide absolute tolerances set at the start
+  double peak_state_voltage_ = 0.0, peak_state_current_ = 0.0;  // largest |state| of each kind this period
+  std::vector<double> scaled_atol_;  // TightenTolerances' result, for the next restart
+  bool scaled_atol_pending_ = false;
+  double next_tolerance_boundary_ = 0.0;
   std::vector<double> derivative_step_;  // scratch of DerivativeFromStep
   double v_ref_ = 1.0, i_ref_ = 1.0, eps_v_ = 0.0, eps_i_ = 0.0;
 

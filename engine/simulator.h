@@ -52,6 +52,11 @@ struct EngineOptions {
     // circuit's own size. (A thousand times tighter, the incoming phase's
     // current near zero forced 50 ns steps at every commutation.)
     double abstol_fraction = 1.0;
+    // From the end of the first period on (periodic circuits), the
+    // scale of the states (inductor currents, capacitor voltages) is the
+    // largest of their kind over the last period, where that is tighter
+    // than the circuit-wide one above.
+    bool scale_from_states = true;
     // Settling tolerance and backstop offset of the valve root functions:
     // ε = hysteresis × the absolute tolerance of the valve's current
     // (turn-off) or voltage (turn-on).

@@ -95,7 +95,12 @@ TEST_CASE("ShootingReachesASlowDcSideSteadyStateInAFewCycles", "[shooting][stead
   REQUIRE(s.steady_reached);
   REQUIRE(s.steady_time <= 5 * 0.02 + 1e-9);
   REQUIRE(shot.Window("Id").mean == Approx(id).epsilon(1e-3));
-  REQUIRE(shot.Window("Vd").mean == Approx(r * id).epsilon(1e-3));
+  // Vd spans the 1 H reactor: its samples are L·dId/dt + R·Id, and the
+  // derivative of a state is known only to about its tolerance over the
+  // step, so across 1 H the sampled mean is off by 0.10–0.15 % at the
+  // default 2° largest step (measured; 0.05 % at 0.125°), whatever the
+  // current's own accuracy.
+  REQUIRE(shot.Window("Vd").mean == Approx(r * id).epsilon(2e-3));
 
   // Plain simulation over the same 400 ms (20 cycles) is still settling:
   // about 40 % of the way, 1 − e^(−0.4/0.77).
