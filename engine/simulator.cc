@@ -1116,7 +1116,7 @@ class Run {
       std::vector<double> x = DifferentialState(N_VGetArrayPointer(work_.get()));
       double sum = 0.0;
       for (std::size_t i = 0; i < x.size(); ++i) {
-        const double w = study_->steady->tol * cycle_peak_[i] + atol_[diff[i]];
+        const double w = study_->steady->tol * cycle_peak_[i] + AbsoluteTolerance(diff[i]);
         const double e = (x[i] - previous_state_[i]) / w;
         sum += e * e;
       }
@@ -1208,6 +1208,12 @@ class Run {
     // IDA takes new tolerances only at a (re)start: the next event's.
     scaled_atol_pending_ = true;
   }
+
+  // Unknown k's absolute tolerance: the state-scaled one once there is one.
+  // The steady-state test and the shooting weights take it as their floor;
+  // the circuit-wide one (tens of amperes on a 33 kV supply with a 1 mΩ
+  // reactor) would call a current still moving by amperes a cycle steady.
+  double AbsoluteTolerance(int k) const { return scaled_atol_.empty() ? atol_[k] : scaled_atol_[k]; }
 
   // Hands pending tolerances to IDA, right after an IDAReInit.
   void ApplyPendingTolerances() {
@@ -1310,8 +1316,12 @@ class Run {
     std::vector<double> w, sc;
     const auto& diff = mna_.differential_indices();
     for (std::size_t i = 0; i < diff.size(); ++i) {
-      w.push_back(tol * last_cycle_peak_[i] + atol_[diff[i]]);
-      sc.push_back(w.back() / tol);
+      w.push_back(tol * last_cycle_peak_[i] + AbsoluteTolerance(diff[i]));
+      // The finite-difference scale keeps the circuit-wide tolerance: with
+      // the state-scaled one, perturbed periods of the electrolyser demo
+      // started with both valves of a leg conducting and IDA failed at
+      // the first restart (measured; not understood yet).
+      sc.push_back(last_cycle_peak_[i] + atol_[diff[i]] / tol);
     }
     for (std::size_t f = 0; f < c.alpha.size(); ++f) {
       if (!Controlled(f)) continue;

@@ -68,6 +68,30 @@ probe v = s
   REQUIRE(c.Window("v").rms == Approx(230).epsilon(1e-5));  // rms of a sine over a whole cycle
 }
 
+TEST_CASE("SteadyStateWaitsForACurrentStillSettling", "[engine][steady][analytic]") {
+  // A 10 V source charging 10 mH through 1 Ω (τ = 10 ms) beside an AC
+  // branch whose 1 µΩ resistor is the circuit's smallest resistance: the
+  // start-up current scale (100 V / 1 µΩ) once made the steady-state test's
+  // floor 100 A a cycle, and "steady" came at 40 ms, the DC current still
+  // 0.5 % short. The current's final value is V/R = 10 A and it gets
+  // there as 1 − e^(−t/τ) (Alexander & Sadiku, 5th ed., §7.6); a change
+  // below tol = 1e-5 a cycle needs e^(−t/τ) below about 1e-5, so the
+  // recorded mean must be within 1e-4 of 10 A.
+  auto c = testing::Simulate(R"(
+voltage_source E (s, gnd) peak = 100 V f = 50 Hz
+resistor Ra (s, m) R = 10 ohm
+resistor Rb (m, gnd) R = 1 uohm
+voltage_source D (d, gnd) dc = 10 V
+resistor Rd (d, k) R = 1 ohm
+inductor L (k, gnd) L = 10 mH
+simulate stop = 1 s
+steady cycles = 2 tol = 1e-5
+probe iL = L.i
+)");
+  REQUIRE(c.run.summary.steady_reached);
+  REQUIRE(c.Window("iL").mean == Approx(10.0).epsilon(1e-4));
+}
+
 TEST_CASE("AlgebraicSamplesBetweenLongStepsFollowTheSource", "[engine][analytic]") {
   // An AC divider beside a charged capacitor that discharges through
   // 2 MΩ (τ = 2·10⁶ s): with the only state all but constant, IDA takes its
