@@ -3,6 +3,7 @@
 #include <fmt/format.h>
 
 #include <algorithm>
+#include <cstddef>
 
 namespace lcc {
 namespace {
@@ -340,11 +341,15 @@ void MnaSystem::RecomputeAlgebraic(double t, double* y) {
   b_.assign(n_, 0.0);
   Sources(t, b_.data());
   drive_.resize(nr + nd);
-  z_.resize(n_);
   for (int k = 0; k < nr; ++k) drive_[k] = b_[source_rows_[k]];
   for (int k = 0; k < nd; ++k) drive_[nr + k] = -y[differential_indices_[k]];
-  z_.head(m).noalias() = response * drive_;
-  for (int i = 0; i < m; ++i) y[output_rows_[i]] = z_[i];
+  const int columns = nr + nd;
+  for (int i = 0; i < m; ++i) {
+    const double* row = response.data() + static_cast<std::ptrdiff_t>(i) * columns;
+    double sum = 0.0;
+    for (int k = 0; k < columns; ++k) sum += row[k] * drive_[k];
+    y[output_rows_[i]] = sum;
+  }
 }
 
 }  // namespace lcc
