@@ -256,6 +256,11 @@ bool LuSolver::Refactorize(const double* values, Plan& plan) {
   return true;
 }
 
+LuSolver::Factors LuSolver::FactorsOf(const Plan& plan) {
+  return {plan.pivot_step.data(), plan.lower_start.data(), plan.lower_rows.data(),   plan.lower_values.data(),
+          plan.upper_start.data(), plan.upper_rows.data(),  plan.upper_values.data(), plan.diagonal.data()};
+}
+
 void LuSolver::Solve(const double* b, double* x) {
   if (supernodal_) {
     work_ = Eigen::Map<const Eigen::VectorXd>(b, n_);
@@ -263,24 +268,18 @@ void LuSolver::Solve(const double* b, double* x) {
     return;
   }
   // P·A·Q = L·U: w = P·b, w ← L⁻¹·w, w ← U⁻¹·w, x = Q·w.
-  const Plan& plan = plans_[active_];
-  const int* lower_start = plan.lower_start.data();
-  const int* lower_rows = plan.lower_rows.data();
-  const double* lower_values = plan.lower_values.data();
-  const int* upper_start = plan.upper_start.data();
-  const int* upper_rows = plan.upper_rows.data();
-  const double* upper_values = plan.upper_values.data();
+  const Factors f = FactorsOf(plans_[active_]);
   double* w = work_.data();
-  for (int i = 0; i < n_; ++i) w[plan.pivot_step[i]] = b[i];
+  for (int i = 0; i < n_; ++i) w[f.pivot_step[i]] = b[i];
   for (int k = 0; k < n_; ++k) {
     const double wk = w[k];
     if (wk == 0.0) continue;
-    for (int q = lower_start[k]; q < lower_start[k + 1]; ++q) w[lower_rows[q]] -= lower_values[q] * wk;
+    for (int q = f.lower_start[k]; q < f.lower_start[k + 1]; ++q) w[f.lower_rows[q]] -= f.lower_values[q] * wk;
   }
   for (int k = n_ - 1; k >= 0; --k) {
-    const double wk = (w[k] /= plan.diagonal[k]);
+    const double wk = (w[k] /= f.diagonal[k]);
     if (wk == 0.0) continue;
-    for (int q = upper_start[k]; q < upper_start[k + 1]; ++q) w[upper_rows[q]] -= upper_values[q] * wk;
+    for (int q = f.upper_start[k]; q < f.upper_start[k + 1]; ++q) w[f.upper_rows[q]] -= f.upper_values[q] * wk;
   }
   for (int k = 0; k < n_; ++k) x[column_order_[k]] = w[k];
 }
@@ -293,26 +292,20 @@ void LuSolver::SolveTransposed(const double* c, double* x) {
   }
   // Aᵀ = Q·Uᵀ·Lᵀ·P: w = Qᵀ·c, w ← U⁻ᵀ·w, w ← L⁻ᵀ·w, x = Pᵀ·w. A column of
   // U or L is a row of its transpose, so each step is a dot product.
-  const Plan& plan = plans_[active_];
-  const int* lower_start = plan.lower_start.data();
-  const int* lower_rows = plan.lower_rows.data();
-  const double* lower_values = plan.lower_values.data();
-  const int* upper_start = plan.upper_start.data();
-  const int* upper_rows = plan.upper_rows.data();
-  const double* upper_values = plan.upper_values.data();
+  const Factors f = FactorsOf(plans_[active_]);
   double* w = work_.data();
   for (int k = 0; k < n_; ++k) w[k] = c[column_order_[k]];
   for (int k = 0; k < n_; ++k) {
     double sum = w[k];
-    for (int q = upper_start[k]; q < upper_start[k + 1]; ++q) sum -= upper_values[q] * w[upper_rows[q]];
-    w[k] = sum / plan.diagonal[k];
+    for (int q = f.upper_start[k]; q < f.upper_start[k + 1]; ++q) sum -= f.upper_values[q] * w[f.upper_rows[q]];
+    w[k] = sum / f.diagonal[k];
   }
   for (int k = n_ - 1; k >= 0; --k) {
     double sum = w[k];
-    for (int q = lower_start[k]; q < lower_start[k + 1]; ++q) sum -= lower_values[q] * w[lower_rows[q]];
+    for (int q = f.lower_start[k]; q < f.lower_start[k + 1]; ++q) sum -= f.lower_values[q] * w[f.lower_rows[q]];
     w[k] = sum;
   }
-  for (int i = 0; i < n_; ++i) x[i] = w[plan.pivot_step[i]];
+  for (int i = 0; i < n_; ++i) x[i] = w[f.pivot_step[i]];
 }
 
 }  // namespace lcc

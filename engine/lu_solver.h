@@ -88,6 +88,19 @@ class LuSolver {
     std::vector<double> matrix;  // the values of A factorised
   };
 
+  // A plan's factors as raw arrays, for the triangular solves' inner loops.
+  struct Factors {
+    const int* pivot_step;
+    const int* lower_start;
+    const int* lower_rows;
+    const double* lower_values;
+    const int* upper_start;
+    const int* upper_rows;
+    const double* upper_values;
+    const double* diagonal;
+  };
+  static Factors FactorsOf(const Plan& plan);
+
   std::uint64_t Signature(const double* values) const;
   // Finds the pivots and the pattern afresh.
   bool FactorizeFully(const double* values, Plan& plan);
