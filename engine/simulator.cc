@@ -174,16 +174,15 @@ class Run {
     yp_.reset(N_VClone(y_.get()));
     work_.reset(N_VClone(y_.get()));
     work_p_.reset(N_VClone(y_.get()));
-    Vector atol(N_VClone(y_.get()));
     Vector id(N_VClone(y_.get()));
-    double* a = N_VGetArrayPointer(atol.get());
     double* idv = N_VGetArrayPointer(id.get());
     const double unit = sim.reltol * options_.tolerances.abstol_fraction;
-    for (int k = 0; k < circuit_->num_nodes() - 1; ++k) a[k] = atol_v;
+    atol_.assign(n_, atol_v);  // node voltages; branch unknowns below
     for (const auto& d : circuit_->devices())
-      for (int k = 0; k < d->num_branches(); ++k) a[d->branch(k)] = unit * d->unknown_scale(k, v_ref, i_ref);
+      for (int k = 0; k < d->num_branches(); ++k) atol_[d->branch(k)] = unit * d->unknown_scale(k, v_ref, i_ref);
     for (int k = 0; k < n_; ++k) idv[k] = mna_.differential()[k] ? 1.0 : 0.0;
-    atol_.assign(a, a + n_);
+    tolerance_ = atol_;
+    if (trial_start_ && !trial_start_->atol.empty()) tolerance_ = trial_start_->atol;
     next_tolerance_boundary_ = period_;
 
     // Initial state: differential unknowns from i0 / v0, switches as given.
@@ -244,9 +243,9 @@ class Run {
     Check(IDAInit(mem, &Run::ResidualFn, 0.0, y_.get(), yp_.get()), "IDAInit");
     Check(IDASetUserData(mem, this), "IDASetUserData");
     Check(IDASetErrHandlerFn(mem, &Run::ErrorFn, this), "IDASetErrHandlerFn");
-    if (trial_start_ && !trial_start_->atol.empty())
-      std::copy(trial_start_->atol.begin(), trial_start_->atol.end(), N_VGetArrayPointer(atol.get()));
-    Check(IDASVtolerances(mem, sim.reltol, atol.get()), "IDASVtolerances");
+    // The error weights come from tolerance_, which the run tightens once
+    // a period has shown the states' sizes (TightenTolerances).
+    Check(IDAWFtolerances(mem, &Run::ErrorWeights), "IDAWFtolerances");
     Check(IDASetId(mem, id.get()), "IDASetId");
     Check(IDASetSuppressAlg(mem, SUNTRUE), "IDASetSuppressAlg");
     Check(IDASetMaxStep(mem, s.max_step_used), "IDASetMaxStep");
@@ -468,7 +467,6 @@ class Run {
     IDAGetLastStep(mem, &h_last);
     const double h0 = std::min(result_.summary.max_step_used, h_last) * options_.events.restart_step_fraction;
     Check(IDAReInit(mem, t, y_.get(), yp_.get()), "IDAReInit");
-    ApplyPendingTolerances();
     t_restart_ = t;
     restart_y_.assign(N_VGetArrayPointer(y_.get()), N_VGetArrayPointer(y_.get()) + n_);
     restart_yp_.assign(N_VGetArrayPointer(yp_.get()), N_VGetArrayPointer(yp_.get()) + n_);
@@ -1199,30 +1197,18 @@ class Run {
     // a magnetising current or a near-idle branch to microamperes, which
     // the perturbed trial periods of shooting cannot always integrate.
     const double unit = study_->simulate->reltol * options_.tolerances.abstol_fraction;
-    scaled_atol_ = atol_;
     for (int k : diff) {
       const double scaled = unit * (k < nodes ? peak_state_voltage_ : peak_state_current_);
-      if (scaled > 0.0) scaled_atol_[k] = std::min(atol_[k], scaled);
+      if (scaled > 0.0) tolerance_[k] = std::min(atol_[k], scaled);
     }
     peak_state_voltage_ = peak_state_current_ = 0.0;
-    // IDA takes new tolerances only at a (re)start: the next event's.
-    scaled_atol_pending_ = true;
   }
 
-  // Unknown k's absolute tolerance: the state-scaled one once there is one.
-  // The steady-state test and the shooting weights take it as their floor;
-  // the circuit-wide one (tens of amperes on a 33 kV supply with a 1 mΩ
-  // reactor) would call a current still moving by amperes a cycle steady.
-  double AbsoluteTolerance(int k) const { return scaled_atol_.empty() ? atol_[k] : scaled_atol_[k]; }
-
-  // Hands pending tolerances to IDA, right after an IDAReInit.
-  void ApplyPendingTolerances() {
-    if (!scaled_atol_pending_) return;
-    scaled_atol_pending_ = false;
-    Vector atol(N_VClone(y_.get()));
-    std::copy(scaled_atol_.begin(), scaled_atol_.end(), N_VGetArrayPointer(atol.get()));
-    Check(IDASVtolerances(ida_.get(), study_->simulate->reltol, atol.get()), "IDASVtolerances");
-  }
+  // Unknown k's absolute tolerance in force. The steady-state test and the
+  // shooting weights take it as their floor: the circuit-wide one (tens of
+  // amperes on a 33 kV supply with a 1 mΩ reactor) would call a current
+  // still moving by amperes a cycle steady.
+  double AbsoluteTolerance(int k) const { return tolerance_[k]; }
 
   // -- shooting for the steady state (engine/shooting.h) --------------------
 
@@ -1239,7 +1225,7 @@ class Run {
     for (double r : recover_until_) c.recover_left.push_back(r > t ? r - t : -1.0);
     c.alpha = alpha_now_;
     c.integral = integral_;
-    c.atol = scaled_atol_;
+    c.atol = tolerance_;
     const std::size_t firings = circuit_->firings().size();
     c.regulated_integral.assign(firings, 0.0);
     c.last_value.assign(firings, 0.0);
@@ -1482,6 +1468,22 @@ class Run {
   // the hysteresis ε, is a backstop for a valve that starts its state
   // marginally on the wrong side of the first (within the settling
   // tolerance), where the first would see no sign change.
+  // IDA's error weights from the tolerances in force, as IDA would set
+  // them: 1 / (reltol·|y_k| + atol_k). Through this function, unlike
+  // IDASVtolerances, a change of tolerance needs no restart.
+  static int ErrorWeights(N_Vector yv, N_Vector ewt, void* data) {
+    auto* run = static_cast<Run*>(data);
+    const double* y = N_VGetArrayPointer(yv);
+    double* w = N_VGetArrayPointer(ewt);
+    const double reltol = run->study_->simulate->reltol;
+    for (int k = 0; k < run->n_; ++k) {
+      const double tol = reltol * std::abs(y[k]) + run->tolerance_[k];
+      if (!(tol > 0.0)) return -1;
+      w[k] = 1.0 / tol;
+    }
+    return 0;
+  }
+
   static int RootFn(realtype, N_Vector yv, N_Vector, realtype* g, void* data) {
     auto* run = static_cast<Run*>(data);
     const double* y = N_VGetArrayPointer(yv);
@@ -1538,8 +1540,7 @@ class Run {
   std::vector<std::uint8_t> states_;
   std::vector<double> atol_;  // the circuit-wide absolute tolerances set at the start
   double peak_state_voltage_ = 0.0, peak_state_current_ = 0.0;  // largest |state| of each kind this period
-  std::vector<double> scaled_atol_;  // TightenTolerances' result, for the next restart
-  bool scaled_atol_pending_ = false;
+  std::vector<double> tolerance_;  // the absolute tolerances in force (IDA's error weights)
   double next_tolerance_boundary_ = 0.0;
   std::vector<double> derivative_step_;  // scratch of DerivativeFromStep
   double v_ref_ = 1.0, i_ref_ = 1.0, eps_v_ = 0.0, eps_i_ = 0.0;
