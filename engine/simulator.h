@@ -8,9 +8,11 @@
 //   loop
 //     take one IDA step to t_n (never past t_end)
 //     write every output sample in (t_last, t_n] from IDA's interpolant
+//       (recomputing the algebraic unknowns the sink reads, where needed)
 //     at each cycle boundary passed: compare the state with one cycle
 //       earlier; after two agreeing cycles the run is steady and t_end
-//       becomes that boundary + `cycles` periods
+//       becomes that boundary + `cycles` periods; hold each kind of state
+//       to reltol × its largest over the cycle from now on
 //     if a root was found at t_e (= t_n):
 //       flip the valves whose root function crossed zero
 //       Settle(t_e): solve y⁺ with the differential states held
