@@ -92,6 +92,7 @@ MnaSystem::MnaSystem(const Circuit& circuit, const LuOptions& lu) : circuit_(&ci
   std::sort(source_rows_.begin(), source_rows_.end());
   source_rows_.erase(std::unique(source_rows_.begin(), source_rows_.end()), source_rows_.end());
   b_.assign(n_, 0.0);
+  z_.setZero(n_);
   states_.assign(circuit.num_switch_slots(), 0);
   SetSwitchStates(states_);
   consistency_values_.assign(pattern_.nonZeros(), 0.0);
@@ -188,7 +189,6 @@ bool MnaSystem::SolveConsistent(double t, double* y, double* yp, std::string* er
     }
   }
   if (!consistency_factored_) {
-    present_response_ = -1;
     if (!consistency_lu_->Factorize(m)) {
       *error = fmt::format("the circuit equations are singular at t = {:.9g} s in the present valve states", t);
       return false;
@@ -297,11 +297,9 @@ void MnaSystem::RecomputeAlgebraic(double t, double* y) {
   KeptResponse& kept = ResponseForPresentStates();
   if (!kept.built && kept.direct < std::min(m, nr + nd)) {
     ++kept.direct;
-    b_.assign(n_, 0.0);
     Sources(t, b_.data());
     for (int col : differential_indices_)
       for (int p = outer[col]; p < outer[col + 1]; ++p) b_[inner[p]] -= g_values_[p] * y[col];
-    z_.resize(n_);
     consistency_lu_->Solve(b_.data(), z_.data());
     for (int k : output_rows_) y[k] = z_[k];
     return;
@@ -309,7 +307,6 @@ void MnaSystem::RecomputeAlgebraic(double t, double* y) {
   auto& response = kept.rows;
   if (!kept.built) {
     response.resize(m, nr + nd);
-    z_.resize(n_);
     if (by_rows) {
       for (int i = 0; i < m; ++i) {
         rhs_.setZero(n_);
@@ -338,7 +335,6 @@ void MnaSystem::RecomputeAlgebraic(double t, double* y) {
     }
     kept.built = true;
   }
-  b_.assign(n_, 0.0);
   Sources(t, b_.data());
   drive_.resize(nr + nd);
   for (int k = 0; k < nr; ++k) drive_[k] = b_[source_rows_[k]];

@@ -1071,12 +1071,14 @@ class Run {
       const double ts = next_sample_ * dt;
       if (ts > t + slack || ts > t_end_ + slack) break;
       const double tq = std::min(ts, t);
-      if (!reads_nothing_) Check(IDAGetDky(mem, tq, 0, work_.get()), "IDAGetDky");
-      if (recompute_algebraic && !reads_nothing_) mna_.RecomputeAlgebraic(tq, N_VGetArrayPointer(work_.get()));
       const double* yp = nullptr;
-      if (wants_derivatives_ && !reads_nothing_) {
-        Check(IDAGetDky(mem, tq, 1, work_p_.get()), "IDAGetDky");
-        yp = N_VGetArrayPointer(work_p_.get());
+      if (!reads_nothing_) {
+        Check(IDAGetDky(mem, tq, 0, work_.get()), "IDAGetDky");
+        if (recompute_algebraic) mna_.RecomputeAlgebraic(tq, N_VGetArrayPointer(work_.get()));
+        if (wants_derivatives_) {
+          Check(IDAGetDky(mem, tq, 1, work_p_.get()), "IDAGetDky");
+          yp = N_VGetArrayPointer(work_p_.get());
+        }
       }
       sink_.OnSample(ts, N_VGetArrayPointer(work_.get()), yp);
       ++next_sample_;
