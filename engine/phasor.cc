@@ -6,11 +6,13 @@
 #include <complex>
 #include <numbers>
 
+#include "engine/real_fft.h"
+
 namespace lcc {
 
 namespace {
 
-// B_h = (2/N)·Σ_k b(t_k)·e^(−j·h·2πk/N) over one period of b(t), N samples.
+// Every source row's samples b_i(t_k), k = 0..N−1, over one period.
 Eigen::MatrixXd SampleSources(MnaSystem& mna, double period, int samples) {
   const int n = mna.size();
   Eigen::MatrixXd b(n, samples);
@@ -22,13 +24,18 @@ Eigen::MatrixXd SampleSources(MnaSystem& mna, double period, int samples) {
   return b;
 }
 
-Eigen::VectorXcd Harmonic(const Eigen::MatrixXd& b, int h) {
-  const int samples = static_cast<int>(b.cols());
-  Eigen::VectorXcd bh = Eigen::VectorXcd::Zero(b.rows());
-  for (int k = 0; k < samples; ++k) {
-    const std::complex<double> w = std::polar(2.0 / samples, -2.0 * std::numbers::pi * h * k / samples);
-    for (int i = 0; i < b.rows(); ++i)
-      if (b(i, k) != 0.0) bh[i] += b(i, k) * w;
+// B_h = (2/N)·Σ_k b(t_k)·e^(−j·h·2πk/N) for h = 0..N/2, column h, by one
+// real FFT per row that has a source (most rows have none).
+Eigen::MatrixXcd SourceHarmonics(const Eigen::MatrixXd& b) {
+  const int rows = static_cast<int>(b.rows()), samples = static_cast<int>(b.cols());
+  Eigen::MatrixXcd bh = Eigen::MatrixXcd::Zero(rows, samples / 2 + 1);
+  std::vector<double> row(samples);
+  std::vector<std::complex<double>> dft;
+  for (int i = 0; i < rows; ++i) {
+    if (b.row(i).isZero(0.0)) continue;
+    for (int k = 0; k < samples; ++k) row[k] = b(i, k);
+    RealForwardDft(row.data(), samples, &dft);
+    for (int h = 0; h <= samples / 2; ++h) bh(i, h) = dft[h] * (2.0 / samples);
   }
   return bh;
 }
@@ -47,8 +54,10 @@ struct PhasorSolver::Impl {
 };
 
 PhasorSolver::PhasorSolver(MnaSystem& mna, double frequency, int samples)
-    : mna_(mna), frequency_(frequency), samples_(SampleSources(mna, 1.0 / frequency, samples)),
-      impl_(std::make_unique<Impl>()) {
+    : mna_(mna), frequency_(frequency), samples_(samples), impl_(std::make_unique<Impl>()) {
+  const Eigen::MatrixXd b = SampleSources(mna, 1.0 / frequency, samples);
+  largest_sample_ = b.cwiseAbs().maxCoeff();
+  harmonics_ = SourceHarmonics(b);
   const auto& pattern = mna.pattern();
   const int n = mna.size();
   impl_->a.resize(n, n);
@@ -59,10 +68,16 @@ PhasorSolver::PhasorSolver(MnaSystem& mna, double frequency, int samples)
 
 PhasorSolver::~PhasorSolver() = default;
 
-Eigen::VectorXcd PhasorSolver::SourceHarmonic(int h) const { return Harmonic(samples_, h); }
+Eigen::VectorXcd PhasorSolver::SourceHarmonic(int h) const {
+  // The DFT of N samples is N-periodic in h and conjugate-symmetric: an
+  // order at or above N/2 reads its alias (as the sum itself would).
+  const int m = ((h % samples_) + samples_) % samples_;
+  if (m <= samples_ / 2) return harmonics_.col(m);
+  return harmonics_.col(samples_ - m).conjugate();
+}
 
 bool PhasorSolver::SourceNegligible(const Eigen::VectorXcd& bh) const {
-  return bh.cwiseAbs().maxCoeff() <= 1e-12 * (samples_.cwiseAbs().maxCoeff() + 1e-300);
+  return bh.cwiseAbs().maxCoeff() <= 1e-12 * (largest_sample_ + 1e-300);
 }
 
 bool PhasorSolver::Solve(int h, Eigen::VectorXcd* y) {

@@ -25,7 +25,8 @@ namespace lcc {
 // states the MnaSystem has at each call. The sources are sampled once (their
 // harmonics h ≥ 1 do not depend on valve states: a valve's Vf is DC), and
 // the sparse LU's symbolic analysis and workspace are kept between solves,
-// which share one pattern.
+// which share one pattern. The harmonics of all orders come from one real
+// FFT per source row, in the constructor.
 class PhasorSolver {
  public:
   // `samples` per period resolve the sources' harmonics exactly below
@@ -46,7 +47,9 @@ class PhasorSolver {
   struct Impl;
   MnaSystem& mna_;
   double frequency_;
-  Eigen::MatrixXd samples_;
+  int samples_;                 // N, per period
+  double largest_sample_ = 0;   // max |b_i(t_k)|
+  Eigen::MatrixXcd harmonics_;  // B_h in column h = 0..N/2
   std::unique_ptr<Impl> impl_;
 };
 
