@@ -1,8 +1,8 @@
 // Benchmark: 1 s of a six-pulse diode bridge with commutation overlap
 // (400 V, 50 Hz, Ls = 1 mH per phase, constant Id = 100 A), at rtol 1e-6.
-// Prints wall time, steps, events and the real-time factor (simulated
-// seconds per wall second), and the accuracy of Vd and of the overlap angle
-// against the closed forms Vd = Vdo − 3ωLs·Id/π and
+// Prints wall time, steps and events (also per cycle), the real-time factor
+// (simulated seconds per wall second), and the accuracy of Vd and of the
+// overlap angle against the closed forms Vd = Vdo − 3ωLs·Id/π and
 // cos μ = 1 − 2ωLs·Id/(√2·VLL) (Mohan, Undeland & Robbins, 3rd ed., §5-7).
 // Each configuration runs three times; the fastest is reported. Then the
 // classic fixed-step trapezoidal method (bench/fixed_step_reference.h) on the
@@ -10,6 +10,7 @@
 // overlap within 0.05 deg, and the CPU time of the two at that accuracy:
 // lccsim at rtol 1e-6, and lccsim at the cheapest of a few coarser settings
 // (rtol, largest step) that reaches the same accuracy, searched the same way.
+// Last, the process's peak RSS.
 //
 // Usage: bench_six_pulse [simulated-seconds]
 #include <fmt/format.h>
@@ -20,6 +21,7 @@
 #include <numbers>
 #include <string>
 
+#include "bench/bench_run.h"
 #include "bench/fixed_step_reference.h"
 #include "engine/simulator.h"
 #include "engine/topology.h"
@@ -98,15 +100,15 @@ int main(int argc, char** argv) {
   const double mu_ref = std::acos(1 - 2 * w * ls * id / (std::sqrt(2.0) * vll)) * 180 / std::numbers::pi;
 
   fmt::print("six-pulse diode bridge with overlap, {} s simulated, rtol 1e-6\n", seconds);
-  fmt::print("{:<22} {:>10} {:>9} {:>8} {:>10} {:>11} {:>11}\n", "configuration", "wall [ms]", "steps", "events",
-             "real-time", "Vd err [%]", "mu err [deg]");
+  fmt::print("{:<22} {:>10} {:>9} {:>8} {:>10} {:>12} {:>13} {:>11} {:>11}\n", "configuration", "wall [ms]", "steps",
+             "events", "real-time", "steps/cycle", "events/cycle", "Vd err [%]", "mu err [deg]");
   double engine_wall = 0.0;  // without probes: the reference below writes no output either
   for (bool probes : {true, false}) {
     const Measured best = FastestOfThree(seconds, probes);
     const auto& s = best.summary;
-    fmt::print("{:<22} {:>10.2f} {:>9} {:>8} {:>9.1f}x {:>11} {:>11}\n",
+    fmt::print("{:<22} {:>10.2f} {:>9} {:>8} {:>9.1f}x {:>12.0f} {:>13.1f} {:>11} {:>11}\n",
                probes ? "3 probes, T/1024 out" : "no probes", s.wall_seconds * 1e3, s.steps, s.events,
-               seconds / s.wall_seconds, probes ? fmt::format("{:.4f}", 100 * (best.vd - vd_ref) / vd_ref) : "-",
+               seconds / s.wall_seconds, s.steps / (seconds * 50.0), s.events / (seconds * 50.0), probes ? fmt::format("{:.4f}", 100 * (best.vd - vd_ref) / vd_ref) : "-",
                probes ? fmt::format("{:.4f}", best.mu_deg - mu_ref) : "-");
     if (!probes) engine_wall = s.wall_seconds;
   }
@@ -171,5 +173,6 @@ int main(int argc, char** argv) {
         "at equal accuracy, both searched: the reference takes {:.2f} ms, lccsim (rtol {:g}, {:g} deg) {:.2f} ms; "
         "reference / lccsim = {:.2f}\n",
         equal_cpu * 1e3, coarse.reltol, coarse.max_step_deg, coarse_wall * 1e3, equal_cpu / coarse_wall);
+  fmt::print("peak RSS of the benchmark process: {:.1f} MB\n", lcc::bench::PeakRssMegabytes());
   return 0;
 }
