@@ -5,12 +5,22 @@
 // F(z) = P(z) − z finds it in a few periods where plain simulation waits
 // for every slow mode (a regulator's integral, a DC-side L/R) to die out.
 //
-// P is a black box (one simulated period). Its Jacobian is built once by
-// finite differences, a period per state, and then kept current by
-// Broyden's rank-one updates, one period per iteration. The answer is the
-// state P(z) at the end of the last period, so it comes from an actual
-// simulated cycle. Nothing is assumed of P beyond being smooth near the
-// steady state (switching instants move smoothly with the state there).
+// P is a black box (one simulated period). Its Jacobian is not built by
+// finite differences, a period per state: the first Newton step solves
+// J·s = −F by GCR, a Krylov method spanning GMRES's space (Saad, Iterative
+// Methods for Sparse Linear Systems, 2nd ed., SIAM 2003, §6.9), J applied
+// to a vector by one perturbed period (the matrix-free Newton–Krylov of
+// C. T. Kelley, "Iterative Methods for Linear and Nonlinear Equations",
+// SIAM 1995, ch. 6). A converter's period map damps its fast modes almost
+// entirely in one cycle, so J = ∂P/∂z − I has its eigenvalues clustered at
+// −1 but for the few slow modes, and the solve needs about one period per
+// slow mode. What it showed (∂P/∂z on the explored directions, zero off
+// them) is kept as the Jacobian and carried by Broyden's updates, one
+// period a Newton step, until a step fails to halve the residual and the
+// next explores afresh. The answer is the state P(z) at the end of the last
+// period, so it comes from an actual simulated cycle. Nothing is assumed of
+// P beyond being smooth near the steady state (switching instants move
+// smoothly with the state there).
 #pragma once
 
 #include <Eigen/Core>
@@ -20,8 +30,9 @@
 namespace lcc {
 
 struct ShootingOptions {
-  int max_iterations = 8;      // Newton steps after the Jacobian
-  double perturbation = 1e-3;  // finite-difference step, in units of each state's scale
+  int max_iterations = 12;     // Newton steps
+  int max_krylov = 1000;       // GMRES vectors (perturbed periods) per Newton step; never more than the states
+  double perturbation = 1e-3;  // finite-difference step, rms in units of the states' scales
   // Converged: the weighted rms of P(z) − z at most `tolerance`; or, once
   // the Newton steps are spent, at most `accept` for the best one (a
   // period map computed to a tolerance has noise of its own, and Newton
@@ -45,7 +56,7 @@ using PeriodMap = std::function<bool(const Eigen::VectorXd& z, Eigen::VectorXd* 
 
 // Solves P(z) = z from z0. `weights`: each state's tolerance (the residual is
 // rms((P(z) − z)/weights)); `scales`: each state's size, for the
-// finite-difference steps (perturbation · scale).
+// finite-difference steps (rms of step/scale = perturbation).
 ShootingResult SolvePeriodicState(const PeriodMap& period, const Eigen::VectorXd& z0, const Eigen::VectorXd& weights,
                                   const Eigen::VectorXd& scales, const ShootingOptions& options = {});
 

@@ -16,8 +16,11 @@ namespace {
 
 TEST_CASE("ShootingFindsTheFixedPointOfAnAffineMapInOneNewtonStep", "[shooting]") {
   // P(z) = A·z + b: F(z) = (A − I)·z + b is linear, so one Newton step
-  // with the finite-difference Jacobian (exact for a linear map) lands on
-  // z* = (I − A)⁻¹·b, computed here by Eigen's LU as the reference.
+  // whose linear solve is exact lands on z* = (I − A)⁻¹·b, computed here by
+  // Eigen's LU as the reference. A's three eigenvalues are distinct, so the
+  // Krylov solve needs all three directions (GMRES terminates at the degree
+  // of the minimal polynomial: Saad, Iterative Methods for Sparse Linear
+  // Systems, 2nd ed., SIAM 2003, §6.5).
   Eigen::MatrixXd a(3, 3);
   a << 0.9, 0.05, 0.0, -0.1, 0.95, 0.02, 0.0, 0.3, 0.5;  // slow modes, as a converter's DC side
   const Eigen::Vector3d b(1.0, -2.0, 0.5);
@@ -30,15 +33,47 @@ TEST_CASE("ShootingFindsTheFixedPointOfAnAffineMapInOneNewtonStep", "[shooting]"
   const ShootingResult r = SolvePeriodicState(map, Eigen::VectorXd::Zero(3), weights, Eigen::VectorXd::Ones(3));
   REQUIRE(r.converged);
   REQUIRE(r.iterations == 1);
-  REQUIRE(r.periods == 1 + 3 + 1);  // the start, a period per state, the step
+  REQUIRE(r.periods == 1 + 3 + 1);  // the start, three directions, the step
   REQUIRE(r.end_evaluation == 4);   // the step's period
   REQUIRE((r.z_end - expected).norm() < 1e-9);
+}
+
+TEST_CASE("ShootingPaysAPeriodPerSlowModeNotPerState", "[shooting]") {
+  // Twenty states, of which a period damps all but two completely: A =
+  // Q·diag(0.95, 0.8, 0, …, 0)·Q⁻¹, as a converter's period map damps its
+  // fast modes and keeps its DC-side L/R and regulator modes. J = A − I then
+  // has three distinct eigenvalues (−0.05, −0.2, −1), so the Krylov solve
+  // ends after three directions (Saad, 2nd ed., §6.5) where a finite-
+  // difference Jacobian takes twenty periods. The fixed point is checked
+  // against (I − A)⁻¹·b by Eigen's LU.
+  const int n = 20;
+  Eigen::MatrixXd q = Eigen::MatrixXd::Identity(n, n);
+  for (int i = 0; i < n; ++i)
+    for (int j = 0; j < n; ++j)
+      if (i != j) q(i, j) = 0.1 * std::sin(1.0 + i + 3.0 * j);  // any well-conditioned mixing
+  Eigen::VectorXd eigen = Eigen::VectorXd::Zero(n);
+  eigen[0] = 0.95;
+  eigen[1] = 0.8;
+  const Eigen::MatrixXd a = q * eigen.asDiagonal() * q.partialPivLu().inverse();
+  Eigen::VectorXd b(n);
+  for (int i = 0; i < n; ++i) b[i] = std::cos(0.7 * i);
+  const Eigen::VectorXd expected = (Eigen::MatrixXd::Identity(n, n) - a).partialPivLu().solve(b);
+  const PeriodMap map = [&](const Eigen::VectorXd& z, Eigen::VectorXd* end) {
+    *end = a * z + b;
+    return true;
+  };
+  const ShootingResult r = SolvePeriodicState(map, Eigen::VectorXd::Zero(n), Eigen::VectorXd::Constant(n, 1e-9),
+                                              Eigen::VectorXd::Ones(n));
+  REQUIRE(r.converged);
+  REQUIRE(r.iterations == 1);
+  REQUIRE(r.periods == 1 + 3 + 1);
+  REQUIRE((r.z_end - expected).norm() < 1e-8 * expected.norm());
 }
 
 TEST_CASE("ShootingFindsTheFixedPointOfTheCosine", "[shooting]") {
   // z = cos z has the single real solution 0.7390851332151607 (the Dottie
   // number, OEIS A003957; the value here from memory, and checked by the
-  // equation itself below). Broyden's updates carry Newton to it.
+  // equation itself below). Newton's steps carry it there.
   const PeriodMap map = [](const Eigen::VectorXd& z, Eigen::VectorXd* end) {
     *end = z.array().cos();
     return true;
@@ -61,6 +96,24 @@ TEST_CASE("ShootingSaysWhyWhenTheMapCannotBeSimulated", "[shooting]") {
                                               Eigen::VectorXd::Ones(2));
   REQUIRE_FALSE(r.converged);
   REQUIRE(r.message == "a perturbed period could not be simulated");
+  REQUIRE(r.periods == 1 + 4);  // the start, then the perturbation each way, full and a tenth
+}
+
+TEST_CASE("AFailedPerturbedPeriodIsTakenTheOtherWay", "[shooting]") {
+  // P(z) = z/2 + 1 (fixed point 2) cannot be simulated below z = 0.5, as a
+  // state pushed past a valve's threshold: the start sits on that edge, so
+  // the first perturbation (along −F, the first Krylov direction, here
+  // downwards) fails and the difference quotient is taken from above; the
+  // map being linear, one Newton step is exact.
+  const PeriodMap map = [](const Eigen::VectorXd& z, Eigen::VectorXd* end) {
+    *end = (0.5 * z.array() + 1.0).matrix();
+    return z[0] >= 0.5;
+  };
+  const ShootingResult r = SolvePeriodicState(map, Eigen::VectorXd::Constant(1, 0.5), Eigen::VectorXd::Constant(1, 1e-9),
+                                              Eigen::VectorXd::Ones(1));
+  REQUIRE(r.converged);
+  REQUIRE(r.periods == 1 + 2 + 1);  // the start, the failed and the reversed perturbation, the step
+  REQUIRE(r.z_end[0] == Approx(2.0).margin(1e-8));
 }
 
 // A diode bridge on a stiff 400 V supply behind 1 mH, feeding 1 ohm
