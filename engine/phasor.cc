@@ -12,29 +12,28 @@ namespace lcc {
 
 namespace {
 
-// Every source row's samples b_i(t_k), k = 0..N−1, over one period.
+// The sources' values b_i(t_k), k = 0..N−1, over one period: column i holds
+// unknown i's row of b, contiguous, as the FFT takes it.
 Eigen::MatrixXd SampleSources(MnaSystem& mna, double period, int samples) {
   const int n = mna.size();
-  Eigen::MatrixXd b(n, samples);
+  Eigen::MatrixXd b(samples, n);
   std::vector<double> column(n);
   for (int k = 0; k < samples; ++k) {
     mna.Sources(period * k / samples, column.data());
-    for (int i = 0; i < n; ++i) b(i, k) = column[i];
+    for (int i = 0; i < n; ++i) b(k, i) = column[i];
   }
   return b;
 }
 
-// B_h = (2/N)·Σ_k b(t_k)·e^(−j·h·2πk/N) for h = 0..N/2, column h, by one
-// real FFT per row that has a source (most rows have none).
+// B_h = (2/N)·Σ_k b(t_k)·e^(−j·h·2πk/N) for h = 0..N/2, in column h, by one
+// real FFT per row of b that has a source (most rows have none).
 Eigen::MatrixXcd SourceHarmonics(const Eigen::MatrixXd& b) {
-  const int rows = static_cast<int>(b.rows()), samples = static_cast<int>(b.cols());
+  const int samples = static_cast<int>(b.rows()), rows = static_cast<int>(b.cols());
   Eigen::MatrixXcd bh = Eigen::MatrixXcd::Zero(rows, samples / 2 + 1);
-  std::vector<double> row(samples);
   std::vector<std::complex<double>> dft;
   for (int i = 0; i < rows; ++i) {
-    if (b.row(i).isZero(0.0)) continue;
-    for (int k = 0; k < samples; ++k) row[k] = b(i, k);
-    RealForwardDft(row.data(), samples, &dft);
+    if (b.col(i).isZero(0.0)) continue;
+    RealForwardDft(b.col(i).data(), samples, &dft);
     for (int h = 0; h <= samples / 2; ++h) bh(i, h) = dft[h] * (2.0 / samples);
   }
   return bh;

@@ -54,7 +54,16 @@ ShootingResult SolvePeriodicState(const PeriodMap& period, const Eigen::VectorXd
   int best_evaluation = r.end_evaluation;
   for (r.iterations = 1; r.iterations <= o.max_iterations; ++r.iterations) {
     const Eigen::VectorXd f_scaled = f.cwiseQuotient(w);
+    const double residual_before = WeightedRms(f, weights);
     Eigen::VectorXd step_scaled;
+    if (!explore) {
+      const Eigen::FullPivLU<Eigen::MatrixXd> lu(model);
+      if (lu.rank() < n) {
+        explore = true;  // Broyden's updates made the model singular
+      } else {
+        step_scaled = -lu.solve(f_scaled);
+      }
+    }
     if (explore) {
       // Minimise ‖f̃ + J̃·s̃‖ over the directions explored (GCR, which spans
       // the same Krylov space as GMRES: Saad, Iterative Methods for Sparse
@@ -103,14 +112,6 @@ ShootingResult SolvePeriodicState(const PeriodMap& period, const Eigen::VectorXd
       model = (images + directions) * directions.completeOrthogonalDecomposition().pseudoInverse() -
               Eigen::MatrixXd::Identity(n, n);
       explore = false;
-    } else {
-      Eigen::FullPivLU<Eigen::MatrixXd> lu(model);
-      if (lu.rank() < n) {
-        explore = true;
-        --r.iterations;
-        continue;
-      }
-      step_scaled = -lu.solve(f_scaled);
     }
     Eigen::VectorXd step = step_scaled.cwiseProduct(w);
 
@@ -142,7 +143,7 @@ ShootingResult SolvePeriodicState(const PeriodMap& period, const Eigen::VectorXd
     const double denominator = s_scaled.squaredNorm();
     if (denominator > 0)
       model += ((f_new - f).cwiseQuotient(w) - model * s_scaled) * s_scaled.transpose() / denominator;
-    explore = residual > 0.5 * WeightedRms(f, weights);
+    explore = residual > 0.5 * residual_before;
     z += step;
     f = f_new;
   }

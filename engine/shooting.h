@@ -31,7 +31,7 @@ namespace lcc {
 
 struct ShootingOptions {
   int max_iterations = 12;     // Newton steps
-  int max_krylov = 1000;       // GMRES vectors (perturbed periods) per Newton step; never more than the states
+  int max_krylov = 1000;       // Krylov directions (perturbed periods) per exploring step; never more than the states
   double perturbation = 1e-3;  // finite-difference step, rms in units of the states' scales
   // Converged: the weighted rms of P(z) − z at most `tolerance`; or, once
   // the Newton steps are spent, at most `accept` for the best one (a
