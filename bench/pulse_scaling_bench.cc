@@ -44,6 +44,7 @@ int main(int argc, char** argv) {
   fmt::print("multi-pulse rectifiers on phase-shifting transformers, {} s simulated, rtol 1e-6\n", seconds);
   fmt::print("{:>7} {:>9} {:>12} {:>16} {:>12} {:>13} {:>10} {:>11} {:>12}\n", "pulses", "unknowns", "ms per s",
              "ms per s/bridge", "steps/cycle", "events/cycle", "RSS [MB]", "Vd err [%]", "mu err [deg]");
+  double per_bridge_first = 0.0, per_bridge_last = 0.0;
   for (int bridges : {1, 2, 4, 8}) {
     const auto design = lcc::bench::ElaborateOrExit(Netlist(bridges, seconds));
     const auto analysed = lcc::bench::FastestAnalysedOfThree(*design);
@@ -54,6 +55,14 @@ int main(int argc, char** argv) {
     fmt::print("{:>7} {:>9} {:>12.1f} {:>16.1f} {:>12.0f} {:>13.1f} {:>10.1f} {:>11.4f} {:>12.4f}\n", 6 * bridges,
                design->circuit.num_unknowns(), ms_per_s, ms_per_s / bridges, best.steps / cycles,
                best.events / cycles, lcc::bench::PeakRssMegabytes(), errors.vd_pct, errors.overlap_deg);
+    if (bridges == 1) per_bridge_first = ms_per_s / bridges;
+    per_bridge_last = ms_per_s / bridges;
   }
+  // Linear growth is a constant cost per bridge. The 25 % allowance is for
+  // timing noise (our choice: each figure is the fastest of three runs, and
+  // this machine's runs vary by more than that between invocations).
+  const double growth = per_bridge_last / per_bridge_first;
+  lcc::bench::PrintTarget("cost per simulated second no faster than linear in bridges, 6 to 48 pulses",
+                          fmt::format("cost per bridge at 48 pulses = {:.2f} x that at 6", growth), growth <= 1.25);
   return 0;
 }
