@@ -30,7 +30,7 @@ int Setup(SUNLinearSolver s, SUNMatrix a) {
   const bool ok = c->lu->Factorize(SM_DATA_S(a));
   ++c->stats->setups;
   c->stats->analyses = c->lu->analyses();
-  c->stats->reused_plans = c->lu->refactorizations() + c->lu->reused_factorizations();
+  c->stats->reused_plans = c->lu->refactorizations() + c->lu->borrowed_factorizations() + c->lu->reused_factorizations();
   if (!ok) {
     ++c->stats->singular;
     return SUNLS_LUFACT_FAIL;  // positive: IDA may recover with a smaller step

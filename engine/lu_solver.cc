@@ -65,6 +65,7 @@ bool LuSolver::Factorize(const double* values) {
   if (slot >= 0 && Refactorize(values, plans_[slot])) {
     ++refactored_;
   } else {
+    bool borrowed = false;
     if (slot < 0) {
       if (static_cast<int>(plans_.size()) < std::max(1, options_.max_plans)) {
         slot = static_cast<int>(plans_.size());
@@ -74,13 +75,25 @@ bool LuSolver::Factorize(const double* values) {
                                                  [](const Plan& a, const Plan& b) { return a.last_used < b.last_used; }) -
                                 plans_.begin());
       }
+      // A new signature is most often the last matrix with another step
+      // size, or with one valve switched: the last plan's pivots are then
+      // usually still the largest, and the pivot check says whether they
+      // are. Tried on a copy, so that the last plan stays intact.
+      if (active_ >= 0 && active_ != slot) {
+        plans_[slot] = plans_[active_];
+        borrowed = Refactorize(values, plans_[slot]);
+      }
     }
-    ++full_;
-    if (!FactorizeFully(values, plans_[slot])) {
-      plans_[slot].signature = 0;  // nothing worth keeping
-      plans_[slot].last_used = 0;
-      active_ = -1;
-      return false;
+    if (borrowed) {
+      ++borrowed_;
+    } else {
+      ++full_;
+      if (!FactorizeFully(values, plans_[slot])) {
+        plans_[slot].signature = 0;  // nothing worth keeping
+        plans_[slot].last_used = 0;
+        active_ = -1;
+        return false;
+      }
     }
   }
   plans_[slot].signature = signature;

@@ -108,7 +108,7 @@ TEST_CASE("AKeptPivotPlanIsReusedOnlyWhileItsPivotsAreStillTheLargest", "[lu]") 
   LuSolver::SparseMatrix pattern(2, 2);
   pattern.setIdentity();
   pattern.coeffRef(1, 0) = pattern.coeffRef(0, 1) = 1.0;
-  LuSolver lu(pattern);
+  LuSolver lu(pattern, LuOptions{.pivot_threshold = 1.0});  // strict: the pivots partial pivoting would choose
   solve(lu, 1.0, 1.5);  // pivot on row 1
   REQUIRE(lu.full_factorizations() == 1);
   solve(lu, 1.1, 1.7);  // row 1 still the larger: the plan is reused
@@ -119,6 +119,55 @@ TEST_CASE("AKeptPivotPlanIsReusedOnlyWhileItsPivotsAreStillTheLargest", "[lu]") 
   solve(lu, 1.9, 1.2);  // the same matrix again: its factors are taken as they are
   REQUIRE(lu.reused_factorizations() == 1);
   REQUIRE(lu.full_factorizations() == 2);
+}
+
+TEST_CASE("ANewSignatureBorrowsTheLastPlanWhileItsPivotsPassTheThreshold", "[lu]") {
+  // The same decade-spanning matrix with every entry scaled by 2.5 to 3.5:
+  // every binary exponent moves, so the signature is new, but no entry moves
+  // against another by more than 1.4, so the old pivots stay far above
+  // the threshold's 0.001 of their columns. Threshold pivoting allows some
+  // growth where partial pivoting allows none beyond a factor of 2 a step
+  // (Duff, Erisman & Reid, Direct Methods for Sparse Matrices, Oxford
+  // 1986, §5.4, from memory): the backward error is held to 1e-12, ten
+  // times the partial-pivoting check above.
+  const int n = 64;
+  LuSolver::SparseMatrix m = MakeMatrix(n, 12.0, 7u);
+  LuSolver lu(m);
+  REQUIRE(lu.Factorize(m.valuePtr()));
+  std::mt19937 gen(11u);
+  std::uniform_real_distribution<double> factor(2.5, 3.5);
+  for (int p = 0; p < m.nonZeros(); ++p) m.valuePtr()[p] *= factor(gen);
+  REQUIRE(lu.Factorize(m.valuePtr()));
+  REQUIRE(lu.borrowed_factorizations() == 1);
+  REQUIRE(lu.full_factorizations() == 1);
+  const Eigen::VectorXd b = Eigen::VectorXd::LinSpaced(n, -1.0, 2.0);
+  Eigen::VectorXd x(n);
+  lu.Solve(b.data(), x.data());
+  const Eigen::MatrixXd dense(m);
+  REQUIRE((dense * x - b).norm() / (dense.norm() * x.norm()) < 1e-12);
+
+  // [[a, 1], [c, −1]] pivoted on row 1 (c = 1.5 > a = 1), then with
+  // c = 1e−4 and a = 3 (new exponents, a new signature): the old pivot is
+  // 3·10⁻⁵ of its column's largest entry, below the threshold, so the
+  // borrowed plan is refused and the pivots are found afresh.
+  auto two = [](double a, double c) {
+    LuSolver::SparseMatrix t(2, 2);
+    std::vector<Eigen::Triplet<double, int>> e{{0, 0, a}, {1, 0, c}, {0, 1, 1.0}, {1, 1, -1.0}};
+    t.setFromTriplets(e.begin(), e.end());
+    t.makeCompressed();
+    return t;
+  };
+  LuSolver small(two(1.0, 1.5));
+  REQUIRE(small.Factorize(two(1.0, 1.5).valuePtr()));
+  const LuSolver::SparseMatrix refused = two(3.0, 1e-4);
+  REQUIRE(small.Factorize(refused.valuePtr()));
+  REQUIRE(small.borrowed_factorizations() == 0);
+  REQUIRE(small.full_factorizations() == 2);
+  const Eigen::Vector2d b2(1.0, -1.0);
+  Eigen::Vector2d x2;
+  small.Solve(b2.data(), x2.data());
+  const Eigen::Matrix2d d2(refused);
+  REQUIRE((d2 * x2 - b2).norm() <= 1e-15 * d2.norm() * x2.norm());
 }
 
 TEST_CASE("AStructurallySingularMatrixIsReported", "[lu]") {
