@@ -60,7 +60,7 @@ simulate stop = {} s reltol = {} max_step = {} s
     fmt::print(stderr, "{}", diags.Format());
     std::exit(2);
   }
-  lcc::ProbeRecorder recorder(design->study.probes);
+  lcc::ProbeRecorder recorder(design->study.probes, lcc::bench::ProgramRecorderOptions());
   auto run = lcc::Simulate(design->circuit, design->study, {}, recorder);
   Measured m;
   m.summary = run.summary;
