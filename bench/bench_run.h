@@ -119,8 +119,8 @@ simulate stop = {} s reltol = 1e-6
                      seconds);
 }
 
-// One of issue 7's targets, as every benchmark ends: the target, what was
-// measured, and whether it is met. scripts/bench.sh collects these lines
+// A performance target, as every benchmark ends (issue 7's, and the batch
+// targets before them): the target, what was measured, and whether it is met. scripts/bench.sh collects these lines
 // (they start with "target:") into one table after running every
 // benchmark, so that the targets are read side by side from one run.
 inline void PrintTarget(const std::string& target, const std::string& measured, bool met) {

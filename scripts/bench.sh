@@ -21,6 +21,6 @@ for name in six_pulse six_pulse_thyristor twelve_pulse pulse_scaling steady memo
   ./build/bench_"$name" 2>&1 | tee -a "$log" || { echo "bench_$name failed" | tee -a "$log"; status=1; }
 done
 echo
-echo "targets (issue 7), all from this run:"
+echo "performance targets, all from this run:"
 grep '^target: ' "$log" | sed 's/^target: /  /'
 exit "$status"
