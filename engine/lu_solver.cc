@@ -62,38 +62,43 @@ bool LuSolver::Factorize(const double* values) {
     active_ = slot;
     return true;
   }
-  if (slot >= 0 && Refactorize(values, plans_[slot])) {
-    ++refactored_;
+  // Where the factorisation must find pivots afresh: 0 for all of it, or
+  // the first step whose kept pivot failed the check (the steps before it
+  // are factorised already, on the kept plan's pattern).
+  int search_from = 0;
+  bool done = false;
+  if (slot >= 0) {
+    search_from = Refactorize(values, plans_[slot]);
+    done = search_from == n_;
+    if (done) ++refactored_;
   } else {
-    bool borrowed = false;
-    if (slot < 0) {
-      if (static_cast<int>(plans_.size()) < std::max(1, options_.max_plans)) {
-        slot = static_cast<int>(plans_.size());
-        plans_.emplace_back();
-      } else {
-        slot = static_cast<int>(std::min_element(plans_.begin(), plans_.end(),
-                                                 [](const Plan& a, const Plan& b) { return a.last_used < b.last_used; }) -
-                                plans_.begin());
-      }
-      // A new signature is most often the last matrix with another step
-      // size, or with one valve switched: the last plan's pivots are then
-      // usually still the largest, and the pivot check says whether they
-      // are. Tried on a copy, so that the last plan stays intact.
-      if (active_ >= 0 && active_ != slot) {
-        plans_[slot] = plans_[active_];
-        borrowed = Refactorize(values, plans_[slot]);
-      }
-    }
-    if (borrowed) {
-      ++borrowed_;
+    if (static_cast<int>(plans_.size()) < std::max(1, options_.max_plans)) {
+      slot = static_cast<int>(plans_.size());
+      plans_.emplace_back();
     } else {
-      ++full_;
-      if (!FactorizeFully(values, plans_[slot])) {
-        plans_[slot].signature = 0;  // nothing worth keeping
-        plans_[slot].last_used = 0;
-        active_ = -1;
-        return false;
-      }
+      slot = static_cast<int>(std::min_element(plans_.begin(), plans_.end(),
+                                               [](const Plan& a, const Plan& b) { return a.last_used < b.last_used; }) -
+                              plans_.begin());
+    }
+    // A new signature is most often the last matrix with another step
+    // size, or with one valve switched: the last plan's pivots are then
+    // usually still acceptable, and the pivot check says whether they are.
+    // Tried on a copy of its pattern, so that the last plan stays intact.
+    if (active_ >= 0 && active_ != slot) {
+      CopyPattern(plans_[active_], plans_[slot]);
+      search_from = Refactorize(values, plans_[slot]);
+      done = search_from == n_;
+      if (done) ++borrowed_;
+    }
+  }
+  if (!done) {
+    ++full_;
+    if (search_from > 0) ++resumed_;
+    if (!FactorizeFully(values, plans_[slot], search_from)) {
+      plans_[slot].signature = 0;  // nothing worth keeping
+      plans_[slot].last_used = 0;
+      active_ = -1;
+      return false;
     }
   }
   plans_[slot].signature = signature;
@@ -113,6 +118,18 @@ std::uint64_t LuSolver::Signature(const double* values) const {
     h = (h ^ ((bits >> 52) & 0x7ff)) * 1099511628211ull;
   }
   return h | 1;  // never 0, which marks an empty plan
+}
+
+void LuSolver::CopyPattern(const Plan& from, Plan& to) {
+  // Refactorize writes every value; only the sizes must match.
+  to.pivot_step = from.pivot_step;
+  to.lower_start = from.lower_start;
+  to.lower_rows = from.lower_rows;
+  to.upper_start = from.upper_start;
+  to.upper_rows = from.upper_rows;
+  to.lower_values.resize(from.lower_values.size());
+  to.upper_values.resize(from.upper_values.size());
+  to.diagonal.resize(from.diagonal.size());
 }
 
 int LuSolver::Reach(int col, const Plan& plan) {
@@ -163,18 +180,36 @@ int LuSolver::Reach(int col, const Plan& plan) {
   return top;
 }
 
-bool LuSolver::FactorizeFully(const double* values, Plan& plan) {
+bool LuSolver::FactorizeFully(const double* values, Plan& plan, int from) {
   const int* outer = sparse_.outerIndexPtr();
   const int* inner = sparse_.innerIndexPtr();
-  plan.pivot_step.assign(n_, -1);
-  plan.lower_start.assign(n_ + 1, 0);
-  plan.upper_start.assign(n_ + 1, 0);
-  plan.diagonal.assign(n_, 0.0);
-  plan.lower_rows.clear();
-  plan.lower_values.clear();
-  plan.upper_rows.clear();
-  plan.upper_values.clear();
-  for (int k = 0; k < n_; ++k) {
+  if (from <= 0) {
+    from = 0;
+    plan.pivot_step.assign(n_, -1);
+    plan.lower_start.assign(n_ + 1, 0);
+    plan.upper_start.assign(n_ + 1, 0);
+    plan.diagonal.assign(n_, 0.0);
+    plan.lower_rows.clear();
+    plan.lower_values.clear();
+    plan.upper_rows.clear();
+    plan.upper_values.clear();
+  } else {
+    // Steps before `from` stand (Refactorize computed them on this plan).
+    // The search works on rows of A, a finished plan on pivot steps: L's
+    // rows so far go back to rows of A, and the rows pivoted from `from` on
+    // are free again. U's rows so far are steps before `from`, unchanged.
+    std::vector<int>& row_of_step = dfs_;  // scratch until the search below uses it
+    for (int i = 0; i < n_; ++i) row_of_step[plan.pivot_step[i]] = i;
+    const int lower_end = plan.lower_start[from];
+    for (int q = 0; q < lower_end; ++q) plan.lower_rows[q] = row_of_step[plan.lower_rows[q]];
+    for (int& step : plan.pivot_step)
+      if (step >= from) step = -1;
+    plan.lower_rows.resize(lower_end);
+    plan.lower_values.resize(lower_end);
+    plan.upper_rows.resize(plan.upper_start[from]);
+    plan.upper_values.resize(plan.upper_start[from]);
+  }
+  for (int k = from; k < n_; ++k) {
     const int col = column_order_[k];
     plan.lower_start[k] = static_cast<int>(plan.lower_rows.size());
     plan.upper_start[k] = static_cast<int>(plan.upper_rows.size());
@@ -230,7 +265,7 @@ bool LuSolver::FactorizeFully(const double* values, Plan& plan) {
   return true;
 }
 
-bool LuSolver::Refactorize(const double* values, Plan& plan) {
+int LuSolver::Refactorize(const double* values, Plan& plan) {
   // The same left-looking elimination on a known pattern, x_ indexed by
   // pivot step: no search, only the arithmetic and the pivot check.
   const int* outer = sparse_.outerIndexPtr();
@@ -263,10 +298,10 @@ bool LuSolver::Refactorize(const double* values, Plan& plan) {
       lower_values[r] = x[lower_rows[r]] * inverse;
       x[lower_rows[r]] = 0.0;
     }
-    if (!acceptable) return false;  // x_ is clean: this column's entries were all cleared
+    if (!acceptable) return k;  // x_ is clean: this column's entries were all cleared
     plan.diagonal[k] = pivot;
   }
-  return true;
+  return n_;
 }
 
 LuSolver::Factors LuSolver::FactorsOf(const Plan& plan) {

@@ -18,7 +18,8 @@
 // signature is refactorised on that plan, arithmetic only (Davis §6.4,
 // "refactorisation"), and the plan is accepted only if every pivot is still
 // at least `pivot_threshold` times the largest entry below it (threshold
-// pivoting). Otherwise the full factorisation runs and replaces the plan. A
+// pivoting). Otherwise the pivot search runs again from the first step
+// whose pivot failed, the steps before it standing, and replaces the plan. A
 // matrix under a signature not seen before is first tried on a copy of the
 // last plan, with the same check: with many bridges the switch states of
 // all of them and the step sizes combine into more signatures than are
@@ -94,6 +95,9 @@ class LuSolver {
   // Factorisations under a new signature that the last plan's pivots still
   // suited (refactorised on a copy of it, then kept under the new one).
   long borrowed_factorizations() const { return borrowed_; }
+  // Of the full factorisations, those that kept the steps a refused plan
+  // had factorised before its first failing pivot.
+  long resumed_factorizations() const { return resumed_; }
   // Factorisations of a matrix equal to the one a kept plan last factorised:
   // its factors are used again as they are.
   long reused_factorizations() const { return reused_; }
@@ -125,10 +129,16 @@ class LuSolver {
   static Factors FactorsOf(const Plan& plan);
 
   std::uint64_t Signature(const double* values) const;
-  // Finds the pivots and the pattern afresh.
-  bool FactorizeFully(const double* values, Plan& plan);
-  // Arithmetic only, on the plan's pattern; false if a pivot is no longer acceptable.
-  bool Refactorize(const double* values, Plan& plan);
+  // Finds the pivots and the pattern afresh from step `from` on; the steps
+  // before it are kept as the plan holds them (a refactorisation that
+  // failed at `from` left them computed for these values).
+  bool FactorizeFully(const double* values, Plan& plan, int from = 0);
+  // Arithmetic only, on the plan's pattern. Returns n if every pivot passed
+  // the check, else the first step whose pivot did not (the steps before
+  // it are factorised).
+  int Refactorize(const double* values, Plan& plan);
+  // The pattern and pivots of `from` into `to`, values sized but not copied.
+  void CopyPattern(const Plan& from, Plan& to);
   // Rows reachable from the non-zeros of column `col` of A through the
   // columns of L built so far, written to stack_[top..n) in topological
   // order; returns top.
@@ -148,7 +158,7 @@ class LuSolver {
   std::vector<int> column_order_;  // step k eliminates column column_order_[k] of A
   std::vector<Plan> plans_;
   int active_ = -1;                // the plan of the last successful factorisation
-  long clock_ = 0, full_ = 0, refactored_ = 0, reused_ = 0, borrowed_ = 0;
+  long clock_ = 0, full_ = 0, refactored_ = 0, reused_ = 0, borrowed_ = 0, resumed_ = 0;
   // Scratch: the dense column being solved, the DFS stacks and visit marks.
   std::vector<double> x_;
   std::vector<int> stack_, dfs_, next_edge_, mark_;

@@ -170,6 +170,32 @@ TEST_CASE("ANewSignatureBorrowsTheLastPlanWhileItsPivotsPassTheThreshold", "[lu]
   REQUIRE((d2 * x2 - b2).norm() <= 1e-15 * d2.norm() * x2.norm());
 }
 
+TEST_CASE("ARefusedPlanIsResumedFromItsFirstFailingPivot", "[lu]") {
+  // One diagonal entry at a time made a billion times smaller: a new
+  // signature, so the last plan is tried; where that entry was its
+  // column's pivot the check refuses it at that column's step, and the
+  // pivot search resumes there, keeping the steps before. Every solve is
+  // held to the backward error of the partial-pivoting check above
+  // (1e-13) times ten, as threshold pivoting allows some growth.
+  const int n = 64;
+  const LuSolver::SparseMatrix base = MakeMatrix(n, 12.0, 5u);
+  LuSolver lu(base);
+  REQUIRE(lu.Factorize(base.valuePtr()));
+  const Eigen::VectorXd b = Eigen::VectorXd::LinSpaced(n, -1.0, 2.0);
+  for (int j = 0; j < n; ++j) {
+    LuSolver::SparseMatrix m = base;
+    m.coeffRef(j, j) *= 1e-9;
+    REQUIRE(lu.Factorize(m.valuePtr()));
+    Eigen::VectorXd x(n);
+    lu.Solve(b.data(), x.data());
+    const Eigen::MatrixXd dense(m);
+    INFO("column " << j);
+    REQUIRE((dense * x - b).norm() / (dense.norm() * x.norm()) < 1e-12);
+  }
+  // The resumed path was taken (not only refusals at the first step).
+  REQUIRE(lu.resumed_factorizations() > 0);
+}
+
 TEST_CASE("AStructurallySingularMatrixIsReported", "[lu]") {
   LuSolver::SparseMatrix m(3, 3);
   std::vector<Eigen::Triplet<double, int>> t{{0, 0, 1.0}, {1, 1, 0.0}, {2, 2, 1.0}, {1, 0, 0.0}};
