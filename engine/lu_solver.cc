@@ -129,7 +129,7 @@ void LuSolver::CopyPattern(const Plan& from, Plan& to) {
   to.upper_rows = from.upper_rows;
   to.lower_values.resize(from.lower_values.size());
   to.upper_values.resize(from.upper_values.size());
-  to.diagonal.resize(from.diagonal.size());
+  to.inverse_diagonal.resize(from.inverse_diagonal.size());
 }
 
 int LuSolver::Reach(int col, const Plan& plan) {
@@ -188,7 +188,7 @@ bool LuSolver::FactorizeFully(const double* values, Plan& plan, int from) {
     plan.pivot_step.assign(n_, -1);
     plan.lower_start.assign(n_ + 1, 0);
     plan.upper_start.assign(n_ + 1, 0);
-    plan.diagonal.assign(n_, 0.0);
+    plan.inverse_diagonal.assign(n_, 0.0);
     plan.lower_rows.clear();
     plan.lower_values.clear();
     plan.upper_rows.clear();
@@ -247,9 +247,9 @@ bool LuSolver::FactorizeFully(const double* values, Plan& plan, int from) {
       return false;
     }
     const double pivot = x_[pivot_row];
-    plan.diagonal[k] = pivot;
     plan.pivot_step[pivot_row] = k;
     const double inverse = 1.0 / pivot;
+    plan.inverse_diagonal[k] = inverse;
     for (int p = top; p < n_; ++p) {
       const int row = stack_[p];
       if (plan.pivot_step[row] < 0) {  // rows of L keep their row of A until every pivot is known
@@ -299,14 +299,14 @@ int LuSolver::Refactorize(const double* values, Plan& plan) {
       x[lower_rows[r]] = 0.0;
     }
     if (!acceptable) return k;  // x_ is clean: this column's entries were all cleared
-    plan.diagonal[k] = pivot;
+    plan.inverse_diagonal[k] = inverse;
   }
   return n_;
 }
 
 LuSolver::Factors LuSolver::FactorsOf(const Plan& plan) {
   return {plan.pivot_step.data(), plan.lower_start.data(), plan.lower_rows.data(),   plan.lower_values.data(),
-          plan.upper_start.data(), plan.upper_rows.data(),  plan.upper_values.data(), plan.diagonal.data()};
+          plan.upper_start.data(), plan.upper_rows.data(),  plan.upper_values.data(), plan.inverse_diagonal.data()};
 }
 
 void LuSolver::Solve(const double* b, double* x) {
@@ -325,7 +325,7 @@ void LuSolver::Solve(const double* b, double* x) {
     for (int q = f.lower_start[k]; q < f.lower_start[k + 1]; ++q) w[f.lower_rows[q]] -= f.lower_values[q] * wk;
   }
   for (int k = n_ - 1; k >= 0; --k) {
-    const double wk = (w[k] /= f.diagonal[k]);
+    const double wk = (w[k] *= f.inverse_diagonal[k]);
     if (wk == 0.0) continue;
     for (int q = f.upper_start[k]; q < f.upper_start[k + 1]; ++q) w[f.upper_rows[q]] -= f.upper_values[q] * wk;
   }
@@ -346,7 +346,7 @@ void LuSolver::SolveTransposed(const double* c, double* x) {
   for (int k = 0; k < n_; ++k) {
     double sum = w[k];
     for (int q = f.upper_start[k]; q < f.upper_start[k + 1]; ++q) sum -= f.upper_values[q] * w[f.upper_rows[q]];
-    w[k] = sum / f.diagonal[k];
+    w[k] = sum * f.inverse_diagonal[k];
   }
   for (int k = n_ - 1; k >= 0; --k) {
     double sum = w[k];
