@@ -106,6 +106,7 @@ void MnaSystem::SetSwitchStates(const std::vector<std::uint8_t>& states) {
   consistency_factored_ = false;
   step_factored_h_ = 0.0;
   present_response_ = -1;
+  b_valid_ = false;
   std::fill(g_values_.begin(), g_values_.end(), 0.0);
   ValueSink sink(g_slot_, c_slot_, g_values_.data(), nullptr);
   for (const auto& d : circuit_->devices()) {
@@ -135,6 +136,7 @@ bool MnaSystem::Rebind(const Circuit& other, std::string* error) {
   }
   circuit_ = &other;
   c_values_ = c;
+  b_valid_ = false;
   source_devices_.clear();
   for (const auto& d : other.devices())
     if (d->has_sources()) source_devices_.push_back(d.get());
@@ -157,7 +159,11 @@ void MnaSystem::Sources(double t, double* b) const {
 }
 
 void MnaSystem::Residual(double t, const double* y, const double* yp, double* r) const {
-  Sources(t, b_.data());
+  if (!b_valid_ || t != b_time_) {
+    Sources(t, b_.data());
+    b_time_ = t;
+    b_valid_ = true;
+  }
   for (int k = 0; k < n_; ++k) r[k] = -b_[k];
   const int* outer = pattern_.outerIndexPtr();
   const int* inner = pattern_.innerIndexPtr();
