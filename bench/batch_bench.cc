@@ -67,11 +67,7 @@ int main() {
     two = std::min(two, RunBatch(dir / "batch.lcc", dir / "two", 2));
   }
   // Simulation time per case, from the one-job run's timing.csv.
-  std::ifstream timing(dir / "one" / "timing.csv");
-  std::string line;
-  std::getline(timing, line);
-  double sim = 0;
-  while (std::getline(timing, line)) sim += std::stod(line.substr(line.rfind(',') + 1));
+  const double sim = lcc::bench::ReadBatchTiming((dir / "one").string()).simulation_seconds;
   fmt::print("{} cases of 40 ms (six-pulse rectifier), {} hardware threads, output under {}\n", cases,
              std::thread::hardware_concurrency(), fs::temp_directory_path().string());
   fmt::print("{:>12} {:>14} {:>14}\n", "jobs", "wall [s]", "cases/s");

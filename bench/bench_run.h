@@ -10,6 +10,7 @@
 #include <algorithm>
 #include <cmath>
 #include <cstdlib>
+#include <fstream>
 #include <memory>
 #include <string>
 
@@ -120,11 +121,31 @@ simulate stop = {} s reltol = 1e-6
 }
 
 // A performance target, as every benchmark ends (issue 7's, and the batch
-// targets before them): the target, what was measured, and whether it is met. scripts/bench.sh collects these lines
-// (they start with "target:") into one table after running every
-// benchmark, so that the targets are read side by side from one run.
+// targets before them): the target, what was measured, and whether it is
+// met. scripts/bench.sh collects these lines (they start with "target:")
+// into one table after running every benchmark, so that the targets are
+// read side by side from one run.
 inline void PrintTarget(const std::string& target, const std::string& measured, bool met) {
   fmt::print("target: {} | {} | {}\n", target, measured, met ? "met" : "NOT MET");
+}
+
+// A batch's simulation time, summed over its cases, from the timing.csv
+// `lccsim run` writes into `out_dir` (last column, seconds), and the
+// number of cases listed there.
+struct BatchTiming {
+  int cases = 0;
+  double simulation_seconds = 0.0;
+};
+inline BatchTiming ReadBatchTiming(const std::string& out_dir) {
+  BatchTiming b;
+  std::ifstream timing(out_dir + "/timing.csv");
+  std::string line;
+  std::getline(timing, line);  // the header
+  while (std::getline(timing, line)) {
+    b.simulation_seconds += std::stod(line.substr(line.rfind(',') + 1));
+    ++b.cases;
+  }
+  return b;
 }
 
 inline double PeakRssMegabytes() {

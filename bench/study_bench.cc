@@ -69,20 +69,16 @@ int main(int argc, char** argv) {
     fs::remove_all(dir);
     return 1;
   }
-  // Per case: the simulation time (timing.csv, last column) and the time
-  // simulated (summary.csv, "window end [s]": the run stops one analysis
-  // window after its steady state).
-  int cases = 0;
-  double simulation = 0, simulated = 0;
+  // Per case: the simulation time (timing.csv) and the time simulated
+  // (summary.csv, "window end [s]": the run stops one analysis window after
+  // its steady state).
+  const lcc::bench::BatchTiming timing = lcc::bench::ReadBatchTiming((dir / "out").string());
+  const int cases = timing.cases;
+  double simulated = 0;
+  int unsteady = 0;
   {
-    std::ifstream timing(dir / "out" / "timing.csv");
-    std::string line;
-    std::getline(timing, line);
-    while (std::getline(timing, line)) {
-      simulation += std::stod(line.substr(line.rfind(',') + 1));
-      ++cases;
-    }
     std::ifstream summary(dir / "out" / "summary.csv");
+    std::string line;
     std::getline(summary, line);
     while (std::getline(summary, line)) {
       // case, status, reason, steady, window begin, window end, ...: the
@@ -90,7 +86,7 @@ int main(int argc, char** argv) {
       std::istringstream fields(line);
       std::string field;
       for (int k = 0; k < 6 && std::getline(fields, field, ','); ++k) {
-        if (k == 3 && field != "yes") fmt::print(stderr, "a case did not reach its steady state: {}\n", line.substr(0, 60));
+        if (k == 3 && field != "yes") ++unsteady;
         if (k == 5) simulated += std::stod(field);
       }
     }
@@ -102,8 +98,10 @@ int main(int argc, char** argv) {
   fmt::print("{:>7} {:>10} {:>9} {:>20} {:>21} {:>12}\n", "cases", "wall [s]", "cases/s", "simulated/case [ms]",
              "simulation/case [ms]", "output [MB]");
   fmt::print("{:>7} {:>10.2f} {:>9.1f} {:>20.1f} {:>21.1f} {:>12.0f}\n", cases, wall, cases / wall,
-             simulated / cases * 1e3, simulation / cases * 1e3, bytes / 1e6);
+             simulated / cases * 1e3, timing.simulation_seconds / cases * 1e3, bytes / 1e6);
   lcc::bench::PrintTarget("a 500-case twelve-pulse study in minutes on a laptop (<= 5 min on 2 cores, our reading)",
-                          fmt::format("{} cases in {:.1f} s with 2 jobs", cases, wall), cases == 500 && wall <= 300);
+                          fmt::format("{} cases in {:.1f} s with 2 jobs{}", cases, wall,
+                                      unsteady ? fmt::format(", {} not steady", unsteady) : ""),
+                          cases == 500 && unsteady == 0 && wall <= 300);
   return 0;
 }

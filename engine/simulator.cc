@@ -1188,9 +1188,8 @@ class Run {
     if (!options_.tolerances.scale_from_states || period_ <= 0 || trial_start_) return;
     const double* y = N_VGetArrayPointer(y_.get());
     const auto& diff = mna_.differential_indices();
-    const int nodes = circuit_->num_nodes() - 1;  // unknowns below this are node voltages
     for (int k : diff) {
-      double& peak = k < nodes ? peak_state_voltage_ : peak_state_current_;
+      double& peak = IsNodeVoltage(k) ? peak_state_voltage_ : peak_state_current_;
       peak = std::max(peak, std::abs(y[k]));
     }
     if (t < next_tolerance_boundary_) return;
@@ -1200,11 +1199,15 @@ class Run {
     // the perturbed trial periods of shooting cannot always integrate.
     const double unit = study_->simulate->reltol * options_.tolerances.abstol_fraction;
     for (int k : diff) {
-      const double scaled = unit * (k < nodes ? peak_state_voltage_ : peak_state_current_);
+      const double scaled = unit * (IsNodeVoltage(k) ? peak_state_voltage_ : peak_state_current_);
       if (scaled > 0.0) tolerance_[k] = std::min(atol_[k], scaled);
     }
     peak_state_voltage_ = peak_state_current_ = 0.0;
   }
+
+  // Unknowns below the node count are node voltages, the rest currents:
+  // the two kinds of state whose scales the tolerances and shooting use.
+  bool IsNodeVoltage(int k) const { return k < circuit_->num_nodes() - 1; }
 
   // Unknown k's absolute tolerance in force. The steady-state test and the
   // shooting weights take it as their floor: the circuit-wide one (tens of
@@ -1303,10 +1306,9 @@ class Run {
     const double tol = study_->steady->tol;
     std::vector<double> w, sc;
     const auto& diff = mna_.differential_indices();
-    const int nodes = circuit_->num_nodes() - 1;  // unknowns below this are node voltages
     double peak_voltage = 0.0, peak_current = 0.0;
     for (std::size_t i = 0; i < diff.size(); ++i) {
-      double& peak = diff[i] < nodes ? peak_voltage : peak_current;
+      double& peak = IsNodeVoltage(diff[i]) ? peak_voltage : peak_current;
       peak = std::max(peak, last_cycle_peak_[i]);
     }
     for (std::size_t i = 0; i < diff.size(); ++i) {
@@ -1323,7 +1325,7 @@ class Run {
       // periods instead of 7; the DC drive 9 instead of 8 (its map is far
       // from linear where shooting starts: the same first step either
       // way, then Broyden's, about 15× each).
-      const double kind = diff[i] < nodes ? peak_voltage : peak_current;
+      const double kind = IsNodeVoltage(diff[i]) ? peak_voltage : peak_current;
       sc.push_back(kind > 0.0 ? kind : AbsoluteTolerance(diff[i]) / tol);
     }
     for (std::size_t f = 0; f < c.alpha.size(); ++f) {
