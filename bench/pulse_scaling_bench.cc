@@ -8,7 +8,13 @@
 // per cycle, the peak resident memory of the process so far, and the worst
 // bridge's Vd and overlap against the per-bridge closed forms (which take
 // each bridge alone behind its Thevenin commutating inductance: the
-// bridges' coupling through the shared supply is outside them).
+// bridges' coupling through the shared supply is outside them). That
+// coupling is why the 24-pulse overlap falls 0.41° short of the closed
+// form: with a 1000 times stiffer supply the simulated overlap stays at
+// 19.41° while the closed form's drops from 19.83° to 19.34° (+0.07°, as
+// at 6 and 12 pulses). The four bridges' commutation currents largely
+// cancel in the supply, so its reactance takes less part in each
+// commutation than the per-bridge Thevenin inductance counts.
 //
 // Usage: bench_pulse_scaling [simulated-seconds]
 #include <fmt/format.h>
