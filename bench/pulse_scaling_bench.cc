@@ -12,9 +12,12 @@
 // coupling is why the 24-pulse overlap falls 0.41° short of the closed
 // form: with a 1000 times stiffer supply the simulated overlap stays at
 // 19.41° while the closed form's drops from 19.83° to 19.34° (+0.07°, as
-// at 6 and 12 pulses). The four bridges' commutation currents largely
-// cancel in the supply, so its reactance takes less part in each
-// commutation than the per-bridge Thevenin inductance counts.
+// at 6 and 12 pulses). At 24 pulses the bridges commutate 15° apart with
+// μ ≈ 19.4°, so two commutations are often in progress at once, both
+// through the supply's reactance; at 12 pulses (30° apart) they never
+// are. How much of that reactance each commutation then sees is what the
+// per-bridge form cannot count (our reading of the measurement, not a
+// derivation).
 //
 // Usage: bench_pulse_scaling [simulated-seconds]
 #include <fmt/format.h>
