@@ -7,11 +7,16 @@
 namespace lcc {
 
 CaseRecorder::CaseRecorder(const std::vector<Probe>& probes, const AnalysisChannels& channels, double keep,
-                           double sample, double from, double to, RecorderOptions probes_options)
+                           double sample, double from, double to, RecorderOptions probes_options, double longest)
     : probes_(probes, std::move(probes_options)), channels_(channels), width_(static_cast<int>(channels.channels.size())),
       from_(from), to_(to), half_(0.5 * sample), sample_(sample) {
   extremes_.assign(width_, {});
-  const double span = to > from ? to - from : keep;
+  double span = to > from ? to - from : keep;
+  // A window longer than the run (a low fundamental against a short stop,
+  // or a chosen window past the stop) would size the ring for samples that
+  // never come: at 1 µHz, 2 cycles of 20 µs samples are 10¹¹ rows, which
+  // failed the case with bad_alloc before any of its results were written.
+  if (longest > 0) span = std::min(span, longest);
   capacity_ = static_cast<std::size_t>(std::ceil(span / sample)) + 4;
   times_.assign(capacity_, 0.0);
   columns_.assign(width_, std::vector<double>(capacity_, 0.0));
@@ -90,7 +95,7 @@ std::unique_ptr<CaseRecorder> RecorderFor(const Study& study, const AnalysisChan
     from = std::max(0.0, stop - keep);
     to = stop;
   }
-  return std::make_unique<CaseRecorder>(study.probes, channels, keep, sample, from, to, probes_options);
+  return std::make_unique<CaseRecorder>(study.probes, channels, keep, sample, from, to, probes_options, stop);
 }
 
 }  // namespace lcc

@@ -24,9 +24,10 @@ class CaseRecorder final : public SampleSink {
  public:
   // keep: seconds of channel history to hold (the window's length, plus a
   // margin); from/to: a chosen window instead (to > from); probes: how the
-  // probe rows are kept.
+  // probe rows are kept; longest: the run's length, s, which no ring
+  // exceeds (0: unbounded).
   CaseRecorder(const std::vector<Probe>& probes, const AnalysisChannels& channels, double keep, double sample,
-               double from = 0.0, double to = 0.0, RecorderOptions probes_options = {});
+               double from = 0.0, double to = 0.0, RecorderOptions probes_options = {}, double longest = 0.0);
 
   bool wants_derivatives() const override { return probes_.wants_derivatives(); }
   std::optional<std::vector<int>> unknowns_read() const override;
@@ -50,6 +51,7 @@ class CaseRecorder final : public SampleSink {
     bool seen = false;
   };
   const std::vector<Extremes>& extremes() const { return extremes_; }
+  std::size_t capacity() const { return capacity_; }  // rows the channel ring holds
 
   const ProbeRecorder& probes() const { return probes_; }
   const AnalysisChannels& channels() const { return channels_; }
