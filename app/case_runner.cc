@@ -89,6 +89,9 @@ namespace {
 
 CaseRunResult RunCaseUnwritten(const CaseRunOptions& o, const CaseInstance& c) {
   CaseRunResult result;
+  // What the case was doing, for the message if anything below throws (an
+  // allocation that fails, a file that cannot be written).
+  const char* stage = "preparing it";
   try {
     std::string messages;
     TopologyReport topology;
@@ -157,6 +160,7 @@ CaseRunResult RunCaseUnwritten(const CaseRunOptions& o, const CaseInstance& c) {
 
     const Study& study = design->study;
     const AnalysisChannels channels = BuildAnalysisChannels(circuit);
+    stage = "preparing its recorder";
     const auto recorder_ptr = RecorderFor(study, channels, {o.waveform_memory_bytes, o.out_dir});
     CaseRecorder& recorder = *recorder_ptr;
     if (!c.timed.empty()) recorder.SetFaultTime(c.timed.front().t);
@@ -167,6 +171,7 @@ CaseRunResult RunCaseUnwritten(const CaseRunOptions& o, const CaseInstance& c) {
         ratings |= p.irms_max > 0 || p.ipk_max > 0 || p.i2t_max > 0 || p.vrrm > 0;
       }
     recorder.SetTrackWholeRun(ratings);
+    stage = "simulating it";
     RunResult run = Simulate(circuit, study, o.engine, recorder, actions);
     if (run.summary.status == RunSummary::Status::kFailed && o.engine.limits.cancel &&
         o.engine.limits.cancel->load()) {
@@ -175,9 +180,11 @@ CaseRunResult RunCaseUnwritten(const CaseRunOptions& o, const CaseInstance& c) {
     }
     std::vector<std::string> notes = topology.notes;
     if (!recorder.probes().spool_error().empty()) notes.push_back(recorder.probes().spool_error());
+    stage = "analysing it";
     CaseAnalysis analysis =
         Analyse({c.name, o.netlist, c.index, c.folder, notes, &circuit, &study, &recorder, &run});
 
+    stage = "writing its results";
     const fs::path dir = fs::path(o.out_dir) / c.folder;
     fs::create_directories(dir);
     const double period = run.summary.period;
@@ -203,7 +210,7 @@ CaseRunResult RunCaseUnwritten(const CaseRunOptions& o, const CaseInstance& c) {
     WriteFileAtomically((dir / "analysis.json").string(), ToJson(analysis).dump(1) + "\n");
     result.analysis = std::move(analysis);
   } catch (const std::exception& e) {
-    result.analysis = FailedCase(o, c, std::string("could not write its results: ") + e.what());
+    result.analysis = FailedCase(o, c, fmt::format("error while {}: {}", stage, e.what()));
   }
   return result;
 }

@@ -299,6 +299,28 @@ TEST_CASE("AFailingCaseIsRecordedAndTheOthersComplete", "[batch]") {
   REQUIRE(fs::exists(dir / "out" / "good" / "waveforms.csv"));
 }
 
+TEST_CASE("ACaseWhoseFolderCannotBeMadeSaysAtWhatStageAndTheOthersComplete", "[batch]") {
+  // A plain file where the case's folder should go: the case fails while
+  // writing its results, its summary line says so, and the other case
+  // still writes everything.
+  const fs::path dir = Fresh("lccsim-blocked-folder");
+  std::ofstream(dir / "f.lcc") << std::string(kPlant) + "case good\ncase blocked\n";
+  fs::create_directories(dir / "out");
+  std::ofstream(dir / "out" / "blocked") << "not a folder\n";
+  RunCommandOptions o;
+  o.netlist = (dir / "f.lcc").string();
+  o.out_dir = (dir / "out").string();
+  o.overwrite = true;
+  std::ostringstream s, e;
+  REQUIRE(RunCommand(o, s, e) == kExitSimulationFailed);
+  const std::string csv = Read(dir / "out" / "summary.csv");
+  INFO(csv);
+  REQUIRE(csv.find("good,completed") != std::string::npos);
+  REQUIRE(csv.find("blocked,failed,error while writing its results: ") != std::string::npos);
+  REQUIRE(fs::exists(dir / "out" / "good" / "waveforms.csv"));
+  REQUIRE(fs::exists(dir / "out" / "good" / "analysis.json"));
+}
+
 }  // namespace
 }  // namespace lcc
 
