@@ -55,5 +55,25 @@ TEST_CASE("ColumnsCountCharactersNotBytes", "[layout]") {
   REQUIRE(f.ColumnOf(f.text().find('X')) == 27);
 }
 
+TEST_CASE("ADiagnosticFarAlongALongLineShowsItsNeighbourhoodAndCaret", "[layout]") {
+  // 200 000 dashes, then 'X': the report names column 200 011 and shows
+  // the line cut to the 100 bytes around it, the caret under the 'X'. (The
+  // caret was placed in time quadratic in the column; a line this long
+  // now takes microseconds.)
+  const std::string text = "param x = " + std::string(200'000, '-') + "X\n";
+  auto file = std::make_shared<SourceFile>("t.lcc", text);
+  Diagnostics diags;
+  diags.Error(SourceLoc{file, text.find('X')}, "here");
+  const std::string out = diags.Format();
+  REQUIRE(out.find("t.lcc:1:200011: error: here") != std::string::npos);
+  const auto shown = out.find("    ...");
+  REQUIRE(shown != std::string::npos);
+  const auto line_end = out.find('\n', shown);
+  const auto caret_line = out.substr(line_end + 1, out.find('\n', line_end + 1) - line_end - 1);
+  const auto caret = caret_line.find('^');
+  REQUIRE(caret != std::string::npos);
+  REQUIRE(out[shown + caret] == 'X');
+}
+
 }  // namespace
 }  // namespace lcc
