@@ -43,7 +43,8 @@ WaveformEstimate EstimateWaveformBytes(const Study& study, const std::set<std::s
   if (!study.simulate || e.columns == 0) return e;
   const double dt = OutputInterval(study);
   if (!(dt > 0)) return e;
-  e.samples = static_cast<std::uint64_t>(std::ceil(study.simulate->stop / dt)) + 1;
+  const double samples = std::ceil(study.simulate->stop / dt) + 1;  // cast only once known to fit
+  e.samples = samples >= 1.8e19 ? UINT64_MAX : static_cast<std::uint64_t>(samples);
   double per_value = 0.0;
   if (formats.count("csv")) per_value += 16.0;
   if (formats.count("comtrade")) per_value += 12.0;

@@ -620,6 +620,17 @@ class Elaborator {
       sim.max_step = set.number("max_step");
       sim.periodic_start = set.words["start"] != "zero";
       sim.loc = loc;
+      // Output samples are emitted one by one: a sample interval of 1e-306 s
+      // over 60 ms never finished, and its spooled rows filled the disk.
+      // A billion rows (1000 s at 1 µs) is far past any study's need.
+      constexpr double kMostSamples = 1e9;
+      if (sim.sample > 0 && sim.stop / sim.sample > kMostSamples) {
+        diags_.Error(set.where.at("sample"),
+                     fmt::format("sample = {:g} s makes {:.3g} output samples up to stop = {:g} s, more than {:g}",
+                                 sim.sample, sim.stop / sim.sample, sim.stop, kMostSamples),
+                     "choose a longer sample interval");
+        return;
+      }
       design_.study.simulate = sim;
     } else if (spec->name == "window") {
       if (design_.study.window) {
