@@ -306,7 +306,9 @@ class Run {
         return;
       }
       if (options_.limits.max_steps > 0 && TotalSteps() >= options_.limits.max_steps) {
-        Fail(fmt::format("step limit of {} steps reached at t = {:.6g} s", options_.limits.max_steps, t));
+        const long trials = result_.summary.shooting_steps;
+        Fail(fmt::format("step limit of {} steps reached at t = {:.6g} s{}", options_.limits.max_steps, t,
+                         trials > 0 ? fmt::format(" ({} of them in shooting's trial periods)", trials) : ""));
         return;
       }
       if (options_.limits.max_wall_seconds > 0 &&
@@ -1154,7 +1156,10 @@ class Run {
         agreeing_cycles_ = 0;
       // Shooting (never in a case with actions), if IDA stopped on this
       // boundary (it is asked to) and the run is not about to be steady.
-      if (shooting_armed_ && agreeing_cycles_ == 0 && t == next_boundary_ && t >= shoot_not_before_) {
+      // Not at the run's end: nothing would be left to simulate from the
+      // state found (and IDA refuses to step from t_end to t_end).
+      if (shooting_armed_ && agreeing_cycles_ == 0 && t == next_boundary_ && t >= shoot_not_before_ &&
+          t < t_end_ - 1e-9 * result_.summary.sample_used) {
         shoot_now_ = true;
         last_cycle_peak_ = cycle_peak_;
       }
@@ -1355,7 +1360,20 @@ class Run {
   // samples are discarded; false if it fails.
   bool TrialPeriod(const CycleState& start, CycleState* end) {
     DiscardingSink discard;
-    Run trial(*circuit_, *study_, options_, discard, {}, &start);
+    // A trial spends the run's budget: the limits bound the whole case,
+    // trials included (each trial had the full limits of its own, and a
+    // fuzzed case at 10¹² V ran 36 trials and 60 million steps).
+    EngineOptions trial_options = options_;
+    auto& limits = trial_options.limits;
+    if (limits.max_steps > 0) {
+      limits.max_steps -= TotalSteps();
+      if (limits.max_steps <= 0) return false;  // the main loop then stops at the limit, with its message
+    }
+    if (limits.max_wall_seconds > 0) {
+      limits.max_wall_seconds -= std::chrono::duration<double>(std::chrono::steady_clock::now() - start_).count();
+      if (limits.max_wall_seconds <= 0) return false;
+    }
+    Run trial(*circuit_, *study_, trial_options, discard, {}, &start);
     const RunResult r = trial.Execute();
     result_.summary.shooting_steps += r.summary.steps;
     if (r.summary.status != RunSummary::Status::kCompleted || !trial.trial_end_) return false;
@@ -1435,10 +1453,12 @@ class Run {
 
   // -- bookkeeping ----------------------------------------------------------------
 
+  // Integration steps so far, shooting's trial periods included (the step
+  // limit bounds them all).
   long TotalSteps() const {
     long n = 0;
     if (ida_) IDAGetNumSteps(ida_.get(), &n);
-    return result_.summary.steps + n;
+    return result_.summary.steps + result_.summary.shooting_steps + n;
   }
 
   // Adds IDA's counters to the summary; IDAReInit resets them.

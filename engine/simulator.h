@@ -110,6 +110,7 @@ struct EngineOptions {
     // the limit and the time reached in its message, its samples kept.
     // The step limit is about ten thousand times what a second of a
     // twelve-pulse converter takes; the wall-clock limit an hour.
+    // Both bound the whole run, shooting's trial periods included.
     long max_steps = 20'000'000;      // integration steps per run
     double max_wall_seconds = 3600.0; // s per run (0: no limit)
     // Set from outside (Ctrl-C): the run stops at its next step, failed

@@ -167,5 +167,45 @@ TEST_CASE("ShootingReachesASlowDcSideSteadyStateInAFewCycles", "[shooting][stead
   REQUIRE(plain.Window("Id").mean < 0.5 * id);
 }
 
+TEST_CASE("ShootingIsNotTriedAtTheRunsLastBoundary", "[shooting][steady]") {
+  // A run of one cycle ends on the boundary where shooting would start:
+  // nothing would be left to simulate from the state it found, so it is
+  // not tried (it was, and the run then failed stepping from its end to
+  // its end). What the one cycle gives is the DC current's rise from rest:
+  // over whole cycles the rectified voltage averages Vd = Vdo − (3ωLs/π)·Id
+  // (Mohan, Undeland & Robbins, Power Electronics, 3rd ed., §5-7), so
+  // L·dId/dt = Vdo − (R + 3ωLs/π)·Id, and Id(T) = Vdo/(R + 3ωLs/π)·
+  // (1 − e^(−T/τ)), τ = L/(R + 3ωLs/π) (our derivation; the ripple's part
+  // is far below the 1 % checked).
+  std::string text = SlowBridge("method = shooting");
+  text.replace(text.find("stop = 400 ms"), 13, "stop = 20 ms");
+  const auto c = testing::Simulate(text);
+  const RunSummary& s = c.run.summary;
+  INFO(s.FullReport());
+  REQUIRE(s.status == RunSummary::Status::kCompleted);
+  REQUIRE(s.shooting_periods == 0);
+  const double w = 2 * std::numbers::pi * 50, ls = 1e-3, r = 1.0 + 3 * w * ls / std::numbers::pi;
+  const double vdo = 3 * std::sqrt(2.0) / std::numbers::pi * 400.0;
+  REQUIRE(c.Column("Id").back() == Approx(vdo / r * (1 - std::exp(-0.02 * r / 1.0))).epsilon(0.01));
+}
+
+TEST_CASE("TheStepLimitCountsShootingsTrialPeriods", "[shooting][errors]") {
+  // The limits bound the whole case: a trial period gets what the run has
+  // left, not limits of its own (each had the full ones, and a case could
+  // run for the step limit times its trial periods).
+  Diagnostics diags;
+  auto design = ElaborateText("s.lcc", SlowBridge("method = shooting"), diags);
+  REQUIRE(design);
+  EngineOptions o;
+  o.limits.max_steps = 700;  // more than the first cycle takes, less than shooting needs
+  ProbeRecorder recorder(design->study.probes);
+  const RunResult run = lcc::Simulate(design->circuit, design->study, o, recorder);
+  INFO(run.summary.FullReport());
+  REQUIRE(run.summary.status == RunSummary::Status::kFailed);
+  REQUIRE(run.summary.message.find("step limit of 700 steps") != std::string::npos);
+  REQUIRE(run.summary.shooting_steps > 0);
+  REQUIRE(run.summary.steps + run.summary.shooting_steps <= 700);
+}
+
 }  // namespace
 }  // namespace lcc
