@@ -59,6 +59,7 @@ std::string ConstraintText(Constraint c) {
     case Constraint::kNonNegative: return "zero or more";
     case Constraint::kPositiveInteger: return "a whole number of 1 or more";
     case Constraint::kFraction: return "between 0 and 0.1";
+    case Constraint::kPerUnit: return "greater than zero and below 1 (100 %)";
     case Constraint::kAny: return "";
   }
   return "";
@@ -70,6 +71,7 @@ bool Satisfies(Constraint c, double v) {
     case Constraint::kNonNegative: return v >= 0;
     case Constraint::kPositiveInteger: return v >= 1 && v == std::floor(v) && v < 1e6;
     case Constraint::kFraction: return v > 0 && v <= 0.1;
+    case Constraint::kPerUnit: return v > 0 && v < 1;
     case Constraint::kAny: return true;
   }
   return true;
@@ -620,6 +622,12 @@ class Elaborator {
       sim.max_step = set.number("max_step");
       sim.periodic_start = set.words["start"] != "zero";
       sim.loc = loc;
+      // A run of less than a nanosecond resolves nothing of a converter, and
+      // at 1e-303 s IDA's first step underflows to zero.
+      if (sim.stop < 1e-9) {
+        diags_.Error(set.where.at("stop"), fmt::format("stop = {:g} s is shorter than 1 ns", sim.stop));
+        return;
+      }
       // Output samples are emitted one by one: a sample interval of 1e-306 s
       // over 60 ms never finished, and its spooled rows filled the disk.
       // A billion rows (1000 s at 1 µs) is far past any study's need.

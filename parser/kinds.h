@@ -22,7 +22,8 @@ enum class KeyType {
   kName,    // a name: of another element (`core = C1`) or a code (`group = Dyn11`)
 };
 
-enum class Constraint { kAny, kPositive, kNonNegative, kPositiveInteger, kFraction };
+// kFraction: a tolerance, in (0, 0.1]; kPerUnit: a share of a rating, in (0, 1).
+enum class Constraint { kAny, kPositive, kNonNegative, kPositiveInteger, kFraction, kPerUnit };
 
 struct KeySpec {
   std::string_view name;
