@@ -96,7 +96,23 @@ TopologyReport CheckTopology(Circuit& circuit, Diagnostics& diags, const Topolog
     return report;
   }
 
-  // 2. Every node needs a DC path to gnd.
+  // 2. A node with a single terminal on it carries no current: most often a
+  // misspelt node name, or an element whose other end was never connected.
+  // Later checks may reference it to gnd (and it then simulates, with the
+  // element open), so it is said here, where its name is still the user's.
+  {
+    std::vector<std::vector<const Device*>> terminals(n);
+    for (const auto& d : devices)
+      for (int node : d->nodes()) terminals[node].push_back(d.get());
+    for (int node = 1; node < n; ++node)
+      if (terminals[node].size() == 1)
+        diags.Warning(circuit.node_loc(node),
+                      fmt::format("node '{}' has a single connection, {}: no current can flow through it",
+                                  circuit.node_name(node), DescribeList(terminals[node])),
+                      "check the node name for a typing error, or connect the element's other end");
+  }
+
+  // 3. Every node needs a DC path to gnd.
   {
     UnionFind uf(n);
     for (const auto& d : devices)
@@ -148,7 +164,7 @@ TopologyReport CheckTopology(Circuit& circuit, Diagnostics& diags, const Topolog
     if (!references.empty()) circuit.Finalize();
   }
 
-  // 3. No loop of voltage sources and capacitors.
+  // 4. No loop of voltage sources and capacitors.
   {
     UnionFind uf(n);
     std::vector<std::vector<std::pair<int, const Device*>>> adj(n);
@@ -171,7 +187,7 @@ TopologyReport CheckTopology(Circuit& circuit, Diagnostics& diags, const Topolog
     }
   }
 
-  // 4. Cut-sets of current sources and inductors.
+  // 5. Cut-sets of current sources and inductors.
   if (report.ok) {
     UnionFind uf(n);
     for (const auto& d : devices) {

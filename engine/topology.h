@@ -8,6 +8,8 @@
 //     voltage (an index-2 DAE);
 //   * current sources (with or without inductors) form a cut-set, which
 //     over-determines a current.
+// Warned about (the circuit still runs): a node with a single terminal on
+// it, most often a misspelt node name.
 // A cut-set of inductors alone is normal in converter circuits: a bridge fed
 // through the supply's inductance, with its DC side unearthed, is joined to
 // the grounded part only through inductors. Its common-mode voltage is then

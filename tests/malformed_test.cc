@@ -52,12 +52,13 @@ void CheckRefused(const fs::path& file, const std::string& where_in, const std::
   const std::string where = std::count(where_in.begin(), where_in.end(), ':') == 2
                                 ? (file.parent_path() / where_in).string()
                                 : file.string() + ":" + where_in;
-  const std::string first_line = text.substr(0, text.find('\n'));
-  REQUIRE(first_line.rfind(where + ": error: " + message, 0) == 0);
-  // Then the offending line and a caret.
+  // The first error (warnings about the same mistake may come before it).
   std::istringstream lines(text);
   std::string l1, l2, l3;
-  std::getline(lines, l1);
+  while (std::getline(lines, l1) && l1.find(": error: ") == std::string::npos) {
+  }
+  REQUIRE(l1.rfind(where + ": error: " + message, 0) == 0);
+  // Then the offending line and a caret.
   std::getline(lines, l2);
   std::getline(lines, l3);
   REQUIRE(l3.find('^') != std::string::npos);

@@ -27,6 +27,25 @@ TEST_CASE("ANodeOnCapacitorsOnlyHasNoDcPath", "[topology]") {
                     "(test.lcc:3)") != std::string::npos);
 }
 
+TEST_CASE("ANodeWithASingleConnectionIsWarnedAtItsName", "[topology]") {
+  // 'q' is misspelt 'qq' in the load: the reactor's end and the load's
+  // end are each on one terminal only. A warning (the circuit can still be
+  // simulated, open there), at the node's first mention, naming the element.
+  Diagnostics diags;
+  auto d = ElaborateText("t.lcc",
+                         "voltage_source E (p, gnd) dc = 100 V\ninductor Ld (p, q) L = 1 mH\n"
+                         "resistor Rl (qq, gnd) R = 1 ohm\n",
+                         diags);
+  REQUIRE(d);
+  REQUIRE(CheckTopology(d->circuit, diags).ok);
+  const std::string text = diags.Format();
+  REQUIRE_FALSE(diags.has_errors());
+  REQUIRE(text.find("t.lcc:2:17: warning: node 'q' has a single connection, Ld (t.lcc:2)") != std::string::npos);
+  REQUIRE(text.find("t.lcc:3:14: warning: node 'qq' has a single connection, Rl (t.lcc:3)") != std::string::npos);
+  // A node on two terminals is not warned about.
+  REQUIRE(text.find("node 'p'") == std::string::npos);
+}
+
 TEST_CASE("ACurrentSourceInSeriesWithAnInductorIsACutSet", "[topology]") {
   const std::string text = DiagnosticsOf(
       "voltage_source E1 (a, gnd) dc = 1 V\nresistor R1 (a, gnd) R = 1 ohm\ncurrent_source J (a, x) dc = 1 A\n"
