@@ -311,9 +311,7 @@ class Run {
                          trials > 0 ? fmt::format(" ({} of them in shooting's trial periods)", trials) : ""));
         return;
       }
-      if (options_.limits.max_wall_seconds > 0 &&
-          std::chrono::duration<double>(std::chrono::steady_clock::now() - start_).count() >
-              options_.limits.max_wall_seconds) {
+      if (options_.limits.max_wall_seconds > 0 && ElapsedSeconds() > options_.limits.max_wall_seconds) {
         Fail(fmt::format("wall-clock limit of {:g} s reached at t = {:.6g} s",
                          options_.limits.max_wall_seconds, t));
         return;
@@ -1370,7 +1368,7 @@ class Run {
       if (limits.max_steps <= 0) return false;  // the main loop then stops at the limit, with its message
     }
     if (limits.max_wall_seconds > 0) {
-      limits.max_wall_seconds -= std::chrono::duration<double>(std::chrono::steady_clock::now() - start_).count();
+      limits.max_wall_seconds -= ElapsedSeconds();
       if (limits.max_wall_seconds <= 0) return false;
     }
     Run trial(*circuit_, *study_, trial_options, discard, {}, &start);
@@ -1452,6 +1450,11 @@ class Run {
   }
 
   // -- bookkeeping ----------------------------------------------------------------
+
+  // Wall-clock seconds since this run started (the wall limit's measure).
+  double ElapsedSeconds() const {
+    return std::chrono::duration<double>(std::chrono::steady_clock::now() - start_).count();
+  }
 
   // Integration steps so far, shooting's trial periods included (the step
   // limit bounds them all).
